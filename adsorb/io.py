@@ -17,7 +17,6 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass, field
-from functools import cached_property
 from pathlib import Path
 
 import numpy as np
@@ -27,11 +26,13 @@ from adsorb.errors import InputError
 
 __all__ = [
     "VibrationSet",
+    "DbRecord",
     "read_structure",
     "read_frequencies",
     "read_vibrations",
     "OutcarModes",
     "parse_outcar_modes",
+    "select_rows",
 ]
 
 #: formats accepted by :func:`read_frequencies` and :func:`read_vibrations`
@@ -643,3 +644,151 @@ def read_vibrations(path, *, format=None, masses_amu=None) -> VibrationSet:
             raise InputError(f"read_vibrations('{path}'): masses_amu only applies to OUTCAR files")
         return _read_ase_vibration_json(path)
     return _outcar_vibrations(path, masses_amu)
+
+
+# --------------------------------------------------------------------------- ase.db
+
+_SQLITE_MAGIC = b"SQLite format 3\x00"
+
+
+class DbRecord:
+    """One row of an ase.db database, read lazily.
+
+    ``id``, ``energy`` (eV or None) and ``key_value_pairs`` are read with the row;
+    ``data`` is decoded on first use and ``atoms`` (via ``row.toatoms()``, with the
+    row's energy on a SinglePointCalculator and its constraints) is built on first use,
+    so a batch that needs only energies and ``data`` never builds an ``ase.Atoms``.
+
+    Attributes
+    ----------
+    id : int
+        The row id in the database.
+    energy : float or None
+        The row's energy in eV, None when the row has none.
+    key_value_pairs : dict
+        The row's key-value pairs (a copy).
+    source : str
+        The database file.
+    """
+
+    __slots__ = ("id", "energy", "key_value_pairs", "source", "_row", "_data", "_atoms")
+
+    def __init__(self, row, source: str):
+        self.id = int(row.id)
+        self.source = source
+        energy = row.get("energy")
+        if energy is not None:
+            energy = float(energy)
+            if not math.isfinite(energy):
+                raise InputError(f"database '{source}', row id={self.id}: energy is {energy} (expected a finite number in eV)")
+        self.energy = energy
+        self.key_value_pairs = dict(row.key_value_pairs)
+        self._row = row
+        self._data = None
+        self._atoms = None
+
+    @property
+    def data(self) -> dict:
+        """The row's ``data`` dictionary (numpy arrays come back as arrays)."""
+        if self._data is None:
+            try:
+                self._data = dict(self._row.data)
+            except Exception as exc:
+                raise InputError(f"database '{self.source}', row id={self.id}: cannot decode data ({_one_line(exc)})") from exc
+        return self._data
+
+    @property
+    def atoms(self):
+        """The row as an ``ase.Atoms`` (built on first use, then kept)."""
+        if self._atoms is None:
+            try:
+                self._atoms = self._row.toatoms()
+            except Exception as exc:
+                raise InputError(f"database '{self.source}', row id={self.id}: cannot build atoms ({_one_line(exc)})") from exc
+        return self._atoms
+
+    def __repr__(self) -> str:
+        return f"DbRecord(id={self.id}, energy={self.energy}, key_value_pairs={self.key_value_pairs})"
+
+
+def _check_selection(path: Path, selection):
+    if selection is None:
+        return None, {}
+    if isinstance(selection, str):
+        return selection, {}
+    if isinstance(selection, dict):
+        for key, value in selection.items():
+            if not isinstance(key, str) or not key.isidentifier():
+                raise InputError(f"database '{path}': selection key {key!r} is not a valid ase.db key (an identifier)")
+            if isinstance(value, (list, tuple, dict, set)) or value is None:
+                raise InputError(
+                    f"database '{path}': selection {key}={value!r} is not a str, int, float or bool"
+                )
+        return None, dict(selection)
+    raise InputError(
+        f"database '{path}': selection must be a dict of key-value pairs or an ase.db query string, got {type(selection).__name__}"
+    )
+
+
+def select_rows(path, selection=None, *, include_data=True, limit=None) -> list:
+    """Rows of an existing ase.db database matching key-value pairs.
+
+    One connection, one ``select`` iteration; nothing is converted to ``ase.Atoms``
+    unless a record's ``atoms`` is used.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        An existing SQLite (``.db``) or JSON (``.json``) ase.db file. A missing path is an
+        error (``ase.db.connect`` alone would silently create an empty database).
+    selection : dict or str, optional
+        Key-value pairs that must all match, e.g. ``{"role": "adsorbate", "site": "fcc"}``,
+        or an ase.db query string such as ``"role=adsorbate,energy<-80"``. None selects
+        every row.
+    include_data : bool, optional
+        Read the rows' ``data`` (default True). False is faster when only energies and
+        key-value pairs are needed.
+    limit : int, optional
+        At most this many rows.
+
+    Returns
+    -------
+    list of DbRecord
+        In the database's order (by id); never empty.
+
+    Raises
+    ------
+    InputError
+        Missing, empty or non-database file, a bad selection, no matching row, or a row
+        whose energy is not finite.
+    """
+    path = _existing_file(path, "database")
+    query, pairs = _check_selection(path, selection)
+    suffix = path.suffix.lower()
+    if path.stat().st_size == 0:
+        raise InputError(f"database '{path}': the file is empty (expected an ase.db database)")
+    if suffix == ".db":
+        with open(path, "rb") as handle:
+            if handle.read(16) != _SQLITE_MAGIC:
+                raise InputError(f"database '{path}': not an SQLite file (expected an ase.db database)")
+    elif suffix != ".json":
+        raise InputError(f"database '{path}': unknown database type {suffix!r} (expected a .db or .json ase.db file)")
+    if limit is not None and (isinstance(limit, bool) or not isinstance(limit, (int, np.integer)) or limit < 1):
+        raise InputError(f"database '{path}': limit must be a positive integer, got {limit!r}")
+
+    import ase.db
+
+    shown = query if query is not None else (", ".join(f"{k}={v!r}" for k, v in pairs.items()) or "all rows")
+    try:
+        db = ase.db.connect(str(path), create_indices=False, use_lock_file=False)
+        kwargs = {"include_data": bool(include_data)}
+        if limit is not None:
+            kwargs["limit"] = int(limit)
+        records = [DbRecord(row, str(path)) for row in db.select(query, **kwargs, **pairs)]
+    except InputError:
+        raise
+    except Exception as exc:
+        raise InputError(f"cannot select rows ({shown}) from database '{path}': {_one_line(exc)}") from exc
+    if not records:
+        raise InputError(f"database '{path}': no row matches the selection ({shown})")
+    return records

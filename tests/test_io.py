@@ -439,3 +439,132 @@ def test_read_vibrations_plain_text_rejected(tmp_path):
     with pytest.raises(InputError) as excinfo:
         aio.read_vibrations(path)
     _assert_one_line(excinfo, "freqs.txt", "read_frequencies")
+
+
+# --------------------------------------------------------------------------- ase.db
+
+
+def _pt_slab_and_co():
+    from ase.build import add_adsorbate, fcc111, molecule
+    from ase.calculators.singlepoint import SinglePointCalculator
+    from ase.constraints import FixAtoms
+
+    slab = fcc111("Pt", size=(2, 2, 3), vacuum=8.0)
+    slab.set_constraint(FixAtoms(mask=slab.get_tags() > 1))
+    ads = slab.copy()
+    add_adsorbate(ads, molecule("CO"), 1.85, "ontop", mol_index=1)
+    slab.calc = SinglePointCalculator(slab, energy=-71.80)  # invented energies, eV
+    ads.calc = SinglePointCalculator(ads, energy=-88.95)
+    return slab, ads
+
+
+@pytest.fixture()
+def small_db(tmp_path):
+    import ase.db
+
+    path = tmp_path / "ads.db"
+    slab, ads = _pt_slab_and_co()
+    db = ase.db.connect(str(path), append=False)
+    with db:
+        db.write(slab, role="slab", surface="Pt111")
+        db.write(
+            ads, role="adsorbate", surface="Pt111", site="ontop", adsorbate="CO",
+            data={"frequencies_cm1": np.array([2050.3, 420.1, 350.2, 350.0, 60.5, 55.1])},
+        )
+    return path
+
+
+def test_db_select_by_pairs(small_db):
+    records = aio.select_rows(small_db, {"role": "adsorbate", "site": "ontop"})
+    assert len(records) == 1
+    rec = records[0]
+    assert rec.id == 2 and rec.energy == pytest.approx(-88.95)
+    assert rec.key_value_pairs == {"role": "adsorbate", "surface": "Pt111", "site": "ontop", "adsorbate": "CO"}
+    np.testing.assert_array_equal(rec.data["frequencies_cm1"], [2050.3, 420.1, 350.2, 350.0, 60.5, 55.1])
+    assert rec._atoms is None  # not built until asked for
+    atoms = rec.atoms
+    assert atoms.get_chemical_formula() == "COPt12"
+    assert atoms.get_potential_energy() == pytest.approx(-88.95)
+    assert [r.id for r in aio.select_rows(small_db, {"surface": "Pt111"})] == [1, 2]
+    assert [r.id for r in aio.select_rows(small_db, "energy<-80")] == [2]
+    assert len(aio.select_rows(small_db)) == 2
+
+
+def test_db_without_data(small_db):
+    rec = aio.select_rows(small_db, {"role": "adsorbate"}, include_data=False)[0]
+    assert rec.data == {}
+    assert rec.energy == pytest.approx(-88.95)
+
+
+def test_db_many_rows_in_order(tmp_path):
+    import ase.db
+    from ase import Atoms
+    from ase.calculators.singlepoint import SinglePointCalculator
+
+    path = tmp_path / "many.db"
+    db = ase.db.connect(str(path), append=False)
+    with db:
+        for i in range(200):
+            a = Atoms("CO", positions=[[0, 0, 0], [0, 0, 1.13 + 1e-3 * i]])
+            a.calc = SinglePointCalculator(a, energy=-14.0 - 0.01 * i)
+            db.write(a, site=("fcc", "hcp")[i % 2], idx=i, data={"freqs": np.array([2100.0 - i])})
+    recs = aio.select_rows(path, {"site": "hcp"})
+    assert [r.key_value_pairs["idx"] for r in recs] == list(range(1, 200, 2))
+    np.testing.assert_allclose([r.energy for r in recs], [-14.0 - 0.01 * i for i in range(1, 200, 2)])
+    assert all(r.data["freqs"][0] == 2100.0 - r.key_value_pairs["idx"] for r in recs)
+    assert len(aio.select_rows(path, {"site": "fcc"}, limit=5)) == 5
+
+
+def test_db_missing_file_is_not_created(tmp_path):
+    path = tmp_path / "typo.db"
+    with pytest.raises(InputError) as excinfo:
+        aio.select_rows(path, {"role": "slab"})
+    _assert_one_line(excinfo, "typo.db", "no such file")
+    assert not path.exists()
+
+
+def test_db_no_match(small_db):
+    with pytest.raises(InputError) as excinfo:
+        aio.select_rows(small_db, {"role": "gas"})
+    _assert_one_line(excinfo, "ads.db", "no row matches", "role='gas'")
+
+
+@pytest.mark.parametrize(
+    "name, content, needle",
+    [
+        ("empty.db", b"", "empty"),
+        ("text.db", b"hello, not sqlite\n", "not an SQLite"),
+        ("rows.csv", b"a,b\n1,2\n", "unknown database type"),
+    ],
+)
+def test_db_not_a_database(tmp_path, name, content, needle):
+    path = tmp_path / name
+    path.write_bytes(content)
+    with pytest.raises(InputError) as excinfo:
+        aio.select_rows(path)
+    _assert_one_line(excinfo, name, needle)
+    assert path.read_bytes() == content  # the file is left untouched
+
+
+@pytest.mark.parametrize("selection", [{"site": ["fcc", "hcp"]}, {"my-key": 1}, 42])
+def test_db_bad_selection(small_db, selection):
+    with pytest.raises(InputError) as excinfo:
+        aio.select_rows(small_db, selection)
+    _assert_one_line(excinfo, "ads.db")
+
+
+def test_db_bad_query_string(small_db):
+    with pytest.raises(InputError) as excinfo:
+        aio.select_rows(small_db, "energy<<")
+    _assert_one_line(excinfo, "ads.db")
+
+
+def test_db_nan_energy_comes_back_as_none(tmp_path):
+    # ASE's SQLite back end stores a NaN energy as NULL: the row reads back without energy
+    import ase.db
+
+    path = tmp_path / "nan.db"
+    a = _co_atoms(energy=float("nan"))
+    ase.db.connect(str(path), append=False).write(a, role="x")
+    rec = aio.select_rows(path, {"role": "x"})[0]
+    assert rec.energy is None
