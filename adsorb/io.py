@@ -141,7 +141,10 @@ def read_structure(path, *, index=-1, format=None):
     try:
         atoms = ase.io.read(str(path), index=int(index), format=format)
     except Exception as exc:  # every reader failure becomes one clean line
-        raise InputError(f"cannot read structure file '{path}' ({fmt_label}): {_one_line(exc)}") from exc
+        hint = ""
+        if type(exc).__name__ == "UnknownFileTypeError" or (format is None and isinstance(exc, UnicodeDecodeError)):
+            hint = "; pass format= with an ase.io format name (e.g. 'vasp-out' for a renamed OUTCAR)"
+        raise InputError(f"cannot read structure file '{path}' ({fmt_label}): {_one_line(exc)}{hint}") from exc
     if isinstance(atoms, list):  # defensive: some readers return a list for one index
         if len(atoms) != 1:
             raise InputError(

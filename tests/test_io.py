@@ -568,3 +568,40 @@ def test_db_nan_energy_comes_back_as_none(tmp_path):
     ase.db.connect(str(path), append=False).write(a, role="x")
     rec = aio.select_rows(path, {"role": "x"})[0]
     assert rec.energy is None
+
+
+# --------------------------------------------------------------------------- a real VASP OUTCAR shipped with ASE
+
+
+def _ase_outcar():
+    from pathlib import Path
+
+    import ase
+
+    path = Path(ase.__file__).parent / "test" / "testdata" / "vasp" / "OUTCAR_example_1"
+    if not path.is_file():
+        pytest.skip("ASE's test data (OUTCAR_example_1) is not installed")
+    return path
+
+
+def test_vasp_outcar_energy_is_sigma_to_zero(tmp_path):
+    import re
+    import shutil
+
+    source = _ase_outcar()
+    # the expected value straight from the file text: the last 'energy(sigma->0) =' entry
+    last = re.findall(r"energy\(sigma->0\)\s*=\s*(-?\d+\.\d+)", source.read_text())[-1]
+    toten = re.findall(r"free\s+energy\s+TOTEN\s*=\s*(-?\d+\.\d+)", source.read_text())[-1]
+    path = tmp_path / "OUTCAR"
+    shutil.copy(source, path)
+    atoms, energy = aio.read_structure(path)
+    assert energy == pytest.approx(float(last), abs=1e-8)
+    assert energy != pytest.approx(float(toten), abs=1e-4)  # not the Mermin free energy (TOTEN)
+    assert len(atoms) == 18
+    renamed = tmp_path / "ni18.outcar"
+    shutil.copy(source, renamed)
+    with pytest.raises(InputError) as excinfo:
+        aio.read_structure(renamed)
+    _assert_one_line(excinfo, "ni18.outcar", "format=")
+    _, energy2 = aio.read_structure(renamed, format="vasp-out")
+    assert energy2 == energy
