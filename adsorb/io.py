@@ -423,6 +423,14 @@ class OutcarModes:
     positions: np.ndarray
     masses_amu: object = None
 
+    def __post_init__(self):
+        for name in ("frequencies_cm", "eigenvectors", "positions", "masses_amu"):
+            value = getattr(self, name)
+            if value is not None:
+                arr = np.array(value, dtype=float)
+                arr.setflags(write=False)
+                object.__setattr__(self, name, arr)
+
 
 def _parse_number(token: str) -> float:
     return float(token.replace("D", "E").replace("d", "e"))
@@ -733,6 +741,22 @@ def _check_selection(path: Path, selection):
     )
 
 
+def _check_ase_sqlite(path: Path) -> None:
+    """Refuse an SQLite file without ase.db tables (ase.db would add its tables to it)."""
+    import sqlite3
+
+    try:
+        con = sqlite3.connect(f"{path.resolve().as_uri()}?mode=ro", uri=True)
+        try:
+            found = con.execute("SELECT name FROM sqlite_master WHERE type='table' AND name='systems'").fetchall()
+        finally:
+            con.close()
+    except sqlite3.Error as exc:
+        raise InputError(f"database '{path}': cannot open as SQLite ({_one_line(exc)})") from None
+    if not found:
+        raise InputError(f"database '{path}': an SQLite file without ase.db tables (expected an ase.db database)")
+
+
 def select_rows(path, selection=None, *, include_data=True, limit=None) -> list:
     """Rows of an existing ase.db database matching key-value pairs.
 
@@ -774,6 +798,7 @@ def select_rows(path, selection=None, *, include_data=True, limit=None) -> list:
         with open(path, "rb") as handle:
             if handle.read(16) != _SQLITE_MAGIC:
                 raise InputError(f"database '{path}': not an SQLite file (expected an ase.db database)")
+        _check_ase_sqlite(path)
     elif suffix != ".json":
         raise InputError(f"database '{path}': unknown database type {suffix!r} (expected a .db or .json ase.db file)")
     if limit is not None and (isinstance(limit, bool) or not isinstance(limit, (int, np.integer)) or limit < 1):

@@ -605,3 +605,140 @@ def test_vasp_outcar_energy_is_sigma_to_zero(tmp_path):
     _assert_one_line(excinfo, "ni18.outcar", "format=")
     _, energy2 = aio.read_structure(renamed, format="vasp-out")
     assert energy2 == energy
+
+
+# --------------------------------------------------------------------------- constraints survive reading, so the
+# adsorbate rule of adsorb.geometry (explicit indices, else atoms not frozen) picks the right atoms
+
+
+def _adsorbate_rule():
+    geometry = pytest.importorskip("adsorb.geometry")
+    if not hasattr(geometry, "adsorbate_indices"):
+        pytest.skip("adsorb.geometry.adsorbate_indices has not landed yet")
+    return geometry.adsorbate_indices
+
+
+def _co_on_frozen_pt(partial=None):
+    """CO on Pt(111) 2x2x3 (atoms 12 = C, 13 = O) with every Pt atom frozen by FixAtoms."""
+    from ase.constraints import FixAtoms, FixCartesian, FixScaled
+
+    _, ads = _pt_slab_and_co()
+    e = ads.get_potential_energy()
+    constraints = [FixAtoms(indices=list(range(12)))]
+    if partial == "cartesian":
+        constraints.append(FixCartesian(12, mask=(False, False, True)))  # C held in z only
+    elif partial == "scaled":
+        constraints.append(FixScaled(13, mask=(True, True, False), cell=ads.cell))
+    from ase.calculators.singlepoint import SinglePointCalculator
+
+    ads.set_constraint(constraints)
+    ads.calc = SinglePointCalculator(ads, energy=e)
+    return ads
+
+
+@pytest.mark.parametrize(
+    "name, fmt, partial",
+    [
+        ("ads.extxyz", "extxyz", None),
+        ("ads_mixed.extxyz", "extxyz", "cartesian"),
+        ("ads.traj", "traj", None),
+        ("ads_mixed.traj", "traj", "cartesian"),
+        ("POSCAR", "vasp", None),
+        ("CONTCAR", "vasp", "scaled"),
+    ],
+)
+def test_constraints_round_trip_give_adsorbate(tmp_path, name, fmt, partial):
+    import ase.io
+
+    adsorbate_indices = _adsorbate_rule()
+
+    path = tmp_path / name
+    ase.io.write(path, _co_on_frozen_pt(partial), format=fmt)
+    atoms, energy = aio.read_structure(path)
+    np.testing.assert_array_equal(adsorbate_indices(atoms), [12, 13])
+    np.testing.assert_array_equal(adsorbate_indices(atoms, indices=[13, 12]), [12, 13])
+    if fmt != "vasp":
+        assert energy == pytest.approx(-88.95)
+
+
+def test_hand_written_extxyz_move_mask(tmp_path):
+    adsorbate_indices = _adsorbate_rule()
+
+    path = tmp_path / "hand.xyz"
+    # move_mask F = frozen (ASE's extxyz convention, ase-io reference note section 7)
+    path.write_text(
+        "4\n"
+        'Lattice="5.0 0 0 0 5.0 0 0 0 20.0" Properties=species:S:1:pos:R:3:move_mask:L:1 energy=-20.5 pbc="T T F"\n'
+        "Cu 0.0 0.0 5.0 F\n"
+        "Cu 2.5 0.0 5.0 F\n"
+        "Cu 0.0 2.5 7.0 T\n"
+        "N  1.25 1.25 8.2 T\n"
+    )
+    atoms, energy = aio.read_structure(path)
+    assert energy == pytest.approx(-20.5)
+    np.testing.assert_array_equal(adsorbate_indices(atoms), [2, 3])
+
+
+def test_db_constraints_give_adsorbate(tmp_path):
+    import ase.db
+
+    adsorbate_indices = _adsorbate_rule()
+
+    path = tmp_path / "c.db"
+    ase.db.connect(str(path), append=False).write(_co_on_frozen_pt("cartesian"), role="adsorbate")
+    rec = aio.select_rows(path, {"role": "adsorbate"})[0]
+    np.testing.assert_array_equal(adsorbate_indices(rec.atoms), [12, 13])
+    assert rec.energy == pytest.approx(-88.95)
+
+
+def test_db_sqlite_without_ase_tables_untouched(tmp_path):
+    import sqlite3
+
+    path = tmp_path / "other_app.db"
+    con = sqlite3.connect(path)
+    con.execute("CREATE TABLE t (x INTEGER)")
+    con.commit()
+    con.close()
+    before = path.read_bytes()
+    with pytest.raises(InputError) as excinfo:
+        aio.select_rows(path)
+    _assert_one_line(excinfo, "other_app.db", "without ase.db tables")
+    assert path.read_bytes() == before
+
+
+def test_db_json_back_end(tmp_path):
+    import ase.db
+
+    path = tmp_path / "few.json"
+    db = ase.db.connect(str(path), append=False)
+    db.write(_co_atoms(energy=-14.2), role="gas", data={"frequencies_cm1": np.array([2143.0])})
+    db.write(_co_atoms(), role="guess")
+    recs = aio.select_rows(path, {"role": "gas"})
+    assert recs[0].energy == pytest.approx(-14.2)
+    np.testing.assert_array_equal(recs[0].data["frequencies_cm1"], [2143.0])
+    assert aio.select_rows(path, {"role": "guess"})[0].energy is None
+
+
+def test_outcar_frozen_atom_and_glued_pomass(tmp_path):
+    # 3 atoms C, O, Pt; Pt not displaced (selective dynamics) -> zero rows in every mode.
+    # 'Mass of Ions in am' uses F6.2 fields, so 195.08 after 16.00 touches it (from memory)
+    q = _orthonormal_6()
+    pos = np.vstack([_OUTCAR_POS, [[0.0, 0.0, 3.0]]])
+    out = ["   ions per type =               1   1   1", "  Mass of Ions in am", "   POMASS =  12.01 16.00195.08", "",
+           " Eigenvectors and eigenvalues of the dynamical matrix", " ----------------------------------------------------", ""]
+    for k in range(6):
+        cm, imag = _OUTCAR_CM[k], _OUTCAR_IMAG[k]
+        lines = [s.format(index=k + 1) for s in _mode_lines(cm, imag, q[k])]
+        lines.insert(-1, f"{pos[2, 0]:10.6f}{pos[2, 1]:10.6f}{pos[2, 2]:10.6f}  {0.0:12.6f}{0.0:12.6f}{-0.0:12.6f}")
+        out += lines
+    path = tmp_path / "OUTCAR"
+    path.write_text("\n".join(out) + "\n")
+    parsed = aio.parse_outcar_modes(path)
+    np.testing.assert_allclose(parsed.masses_amu, [12.01, 16.00, 195.08])
+    assert parsed.eigenvectors.shape == (6, 3, 3)
+    vib = aio.read_vibrations(path)
+    np.testing.assert_array_equal(vib.indices, [0, 1])
+    np.testing.assert_allclose(vib.masses_amu, [12.01, 16.00])
+    assert vib.modes.shape == (6, 2, 3)
+    with pytest.raises(ValueError):
+        vib.modes[0, 0, 0] = 1.0  # read-only arrays
