@@ -262,8 +262,9 @@ def read_frequencies(source, *, format=None) -> np.ndarray:
 
     Parameters
     ----------
-    source : sequence of numbers, str or pathlib.Path
-        - a sequence (list, tuple, 1-D array) of wavenumbers in cm^-1. Complex values
+    source : number, sequence of numbers, str or pathlib.Path
+        - a sequence (list, tuple, 1-D array) of wavenumbers in cm^-1, or a single
+          number for one mode (extxyz returns a scalar for ``freqs="2143.0"``). Complex values
           in ASE's convention (an imaginary mode is ``0 + x j``) become ``-x``; strings
           such as ``"120i"`` are accepted too;
         - a plain text file: numbers separated by whitespace and/or commas, ``#``
@@ -303,6 +304,11 @@ def read_frequencies(source, *, format=None) -> np.ndarray:
         return _read_ase_vibration_json(path).frequencies_cm.copy()
     if format is not None:
         raise InputError(f"read_frequencies: format={format!r} only applies to files, got a {type(source).__name__}")
+    if isinstance(source, (int, float, np.integer, np.floating)) and not isinstance(source, (bool, np.bool_)):
+        # one number = one mode (extxyz gives a scalar for a single-valued freqs= entry)
+        return _frequencies_from_sequence([source])
+    if isinstance(source, np.ndarray) and source.ndim == 0:
+        return _frequencies_from_sequence(source.reshape(1))
     if np.isscalar(source) or not hasattr(source, "__iter__"):
         raise InputError(
             f"frequencies: expected a sequence of wavenumbers in cm^-1 or a file path, got {type(source).__name__} {source!r}"
@@ -355,11 +361,9 @@ class VibrationSet:
 
 
 def _read_ase_vibration_json(path: Path) -> VibrationSet:
-    try:
-        # ase.vibrations imports matplotlib: keep it out of module import time
-        from ase.vibrations import VibrationsData
-    except Exception as exc:
-        raise InputError(f"cannot read vibration file '{path}': ase.vibrations unavailable ({_one_line(exc)})") from exc
+    # ase.vibrations imports matplotlib: keep it out of module import time
+    from ase.vibrations import VibrationsData
+
     try:
         data = VibrationsData.read(str(path))
     except AssertionError:

@@ -209,6 +209,9 @@ def test_frequency_sequences():
     np.testing.assert_array_equal(aio.read_frequencies(("300", "120i")), [300.0, -120.0])
     # ASE's complex convention: an imaginary mode is 0 + x j
     np.testing.assert_array_equal(aio.read_frequencies(np.array([0 + 45j, 3 + 0j, 500 + 0j])), [-45.0, 3.0, 500.0])
+    # a single number is one mode (extxyz gives a scalar for a one-value freqs= entry)
+    np.testing.assert_array_equal(aio.read_frequencies(np.float64(2143.0)), [2143.0])
+    np.testing.assert_array_equal(aio.read_frequencies(np.array(5.0)), [5.0])
     out = aio.read_frequencies(np.arange(3.0))
     assert out.dtype == float and out.shape == (3,)
 
@@ -220,7 +223,8 @@ def test_frequency_sequences():
         ([100.0, float("nan")], "item 1"),
         ([100.0, "abc"], "item 1"),
         (np.ones((2, 3)), "shape"),
-        (5.0, "sequence"),
+        (True, "sequence"),
+        (object(), "sequence"),
         ([None], "item 0"),
     ],
 )
@@ -742,3 +746,14 @@ def test_outcar_frozen_atom_and_glued_pomass(tmp_path):
     assert vib.modes.shape == (6, 2, 3)
     with pytest.raises(ValueError):
         vib.modes[0, 0, 0] = 1.0  # read-only arrays
+
+
+def test_extxyz_info_frequencies(tmp_path):
+    path = tmp_path / "co.xyz"
+    # one value in freqs= comes back from ASE's extxyz reader as a scalar (ase-io note, pitfall 11)
+    path.write_text('2\nenergy=-14.2 freqs="2143.0"\nC 0 0 0\nO 0 0 1.128\n')
+    atoms, _ = aio.read_structure(path)
+    np.testing.assert_array_equal(aio.read_frequencies(atoms.info["freqs"]), [2143.0])
+    path.write_text('2\nenergy=-14.2 freqs="2143.0 12.5"\nC 0 0 0\nO 0 0 1.128\n')
+    atoms, _ = aio.read_structure(path)
+    np.testing.assert_array_equal(aio.read_frequencies(atoms.info["freqs"]), [2143.0, 12.5])
