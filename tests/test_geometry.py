@@ -401,3 +401,348 @@ def test_bad_mass():
     a.set_masses([0.0, 12.0])
     with pytest.raises(InputError, match="mass of atom 0"):
         masses_amu(a)
+
+
+# ---------------------------------------------------------------------------
+# adsorbates: indices, normal, inertia about the normal
+# ---------------------------------------------------------------------------
+
+from ase.build import add_adsorbate, fcc100, fcc111  # noqa: E402
+from ase.constraints import FixAtoms, FixBondLength, FixCartesian, FixScaled  # noqa: E402
+
+from adsorb.geometry import (  # noqa: E402
+    adsorbate_indices,
+    assign_soft_modes,
+    inertia_about_normal,
+    lowest_modes,
+    rigid_motion_overlaps,
+    surface_normal,
+)
+
+
+def _co_on_pt(frozen="all"):
+    slab = fcc111("Pt", size=(2, 2, 3), vacuum=8.0)
+    add_adsorbate(slab, molecule("CO"), 1.85, "ontop", mol_index=1)  # indices 12 (O), 13 (C)
+    if frozen == "all":
+        slab.set_constraint(FixAtoms(mask=slab.get_tags() > 0))
+    return slab
+
+
+def test_adsorbate_indices_from_fixatoms():
+    assert adsorbate_indices(_co_on_pt()).tolist() == [12, 13]
+
+
+def test_adsorbate_indices_explicit():
+    slab = _co_on_pt(frozen=None)
+    assert adsorbate_indices(slab, [13, 12]).tolist() == [12, 13]
+    assert adsorbate_indices(slab, np.array([3])).tolist() == [3]
+
+
+def test_adsorbate_indices_partial_masks_do_not_freeze():
+    # ase-io.md §7: only FixAtoms or an all-True FixCartesian/FixScaled mask freezes an atom
+    slab = _co_on_pt(frozen=None)
+    slab.set_constraint([
+        FixAtoms(indices=range(0, 8)),
+        FixCartesian([8, 9], (True, True, True)),
+        FixScaled(10, (True, True, True)),
+        FixCartesian(11, (True, True, False)),  # partial: stays free
+        FixScaled(12, (False, False, True)),  # partial: stays free
+        FixBondLength(12, 13),  # not a freezing constraint
+    ])
+    assert adsorbate_indices(slab).tolist() == [11, 12, 13]
+
+
+def test_adsorbate_indices_after_extxyz_round_trip(tmp_path):
+    # ase-io.md §7: any FixCartesian turns extxyz constraints into one FixCartesian per atom
+    import ase.io
+
+    slab = _co_on_pt(frozen=None)
+    slab.set_constraint([FixAtoms(mask=slab.get_tags() > 0), FixCartesian(13, (False, False, True))])
+    path = tmp_path / "slab.xyz"
+    ase.io.write(path, slab)
+    back = ase.io.read(path)
+    assert all(isinstance(c, FixCartesian) for c in back.constraints)
+    assert adsorbate_indices(back).tolist() == [12, 13]
+
+
+@pytest.mark.parametrize(
+    ("indices", "match"),
+    [([], "indices"), ([0, 0], "repeated"), ([14], "between 0 and 13"), ([-1], "between"),
+     ([0.5], "indices"), ([True, False], "indices"), ([[1, 2]], "indices")],
+)
+def test_adsorbate_indices_bad(indices, match):
+    with pytest.raises(InputError, match=match):
+        adsorbate_indices(_co_on_pt(), indices)
+
+
+def test_adsorbate_indices_none_or_all_frozen():
+    with pytest.raises(InputError, match="no atom is frozen"):
+        adsorbate_indices(_co_on_pt(frozen=None))
+    slab = _co_on_pt(frozen=None)
+    slab.set_constraint(FixAtoms(indices=range(len(slab))))
+    with pytest.raises(InputError, match="all 14 atoms are frozen"):
+        adsorbate_indices(slab)
+
+
+def test_surface_normal_of_built_slabs():
+    np.testing.assert_allclose(surface_normal(_co_on_pt()), [0, 0, 1], atol=1e-12)
+    np.testing.assert_allclose(surface_normal(fcc100("Cu", (2, 2, 3), vacuum=8)), [0, 0, 1], atol=1e-12)
+    np.testing.assert_allclose(surface_normal(molecule("CO")), [0, 0, 1], atol=0)  # no cell
+
+
+def test_surface_normal_skewed_and_other_planes():
+    a = Atoms("Cu", cell=[[3, 0, 0], [1.5, 2.6, 0], [1.0, 1.0, 20.0]], pbc=[True, True, False])
+    # normal to a1 and a2, not along the tilted third vector
+    np.testing.assert_allclose(surface_normal(a), [0, 0, 1], atol=1e-12)
+    a.cell[2] = [0.5, 0.0, -20.0]
+    np.testing.assert_allclose(surface_normal(a), [0, 0, -1], atol=1e-12)  # points along a3
+    b = Atoms("Cu", cell=[[3, 0, 0], [0, 25, 0], [0, 0, 4]], pbc=[True, False, True])
+    np.testing.assert_allclose(surface_normal(b), [0, 1, 0], atol=1e-12)  # vacuum along b
+    c = Atoms("Cu", cell=[[3, 0, 0], [6, 0, 0], [0, 0, 4]], pbc=[True, True, False])
+    with pytest.raises(InputError, match="parallel"):
+        surface_normal(c)
+
+
+def test_inertia_about_normal_flat_and_upright_co():
+    # a flat CO rotating about the normal: I = mu r^2 (common practice); upright CO: 0
+    r = 1.15
+    slab = fcc100("Cu", (2, 2, 3), vacuum=8)
+    n_slab = len(slab)
+    top = slab.positions[:, 2].max()
+    flat = slab + Atoms("CO", positions=[[1.0, 1.2, top + 2.0], [1.0 + r, 1.2, top + 2.0]])
+    flat.set_constraint(FixAtoms(indices=range(n_slab)))
+    m_c, m_o = 12.011, 15.999
+    assert inertia_about_normal(flat, None) == pytest.approx(m_c * m_o / (m_c + m_o) * r**2, rel=1e-12)
+    upright = slab + Atoms("CO", positions=[[1.0, 1.2, top + 2.0], [1.0, 1.2, top + 2.0 + r]])
+    assert inertia_about_normal(upright, [n_slab, n_slab + 1]) == pytest.approx(0.0, abs=1e-12)
+    # about a horizontal axis instead, the upright molecule has mu r^2 again
+    assert inertia_about_normal(upright, [n_slab, n_slab + 1], normal=[2.0, 0, 0]) == pytest.approx(
+        m_c * m_o / (m_c + m_o) * r**2, rel=1e-12)
+
+
+def test_inertia_about_normal_matches_principal_moment_of_nh3():
+    # NH3 from ase.build has its C3 axis along z; about z its moment is the unique principal moment
+    nh3 = molecule("NH3")
+    moments, axes = principal_moments(nh3)
+    unique = moments[2] if abs(moments[2] - moments[1]) > abs(moments[1] - moments[0]) else moments[0]
+    assert inertia_about_normal(nh3, [0, 1, 2, 3]) == pytest.approx(unique, rel=1e-10)
+    # rotate everything: about the rotated normal it is unchanged
+    rot = Rotation.random(random_state=4).as_matrix()
+    turned = nh3.copy()
+    turned.positions = nh3.positions @ rot.T
+    assert inertia_about_normal(turned, [0, 1, 2, 3], normal=rot @ [0, 0, 1]) == pytest.approx(unique, rel=1e-10)
+
+
+def test_inertia_about_normal_adsorbate_split_by_the_cell():
+    slab = fcc100("Cu", (2, 2, 3), vacuum=8)
+    n_slab = len(slab)
+    top = slab.positions[:, 2].max()
+    width = slab.cell[0, 0]
+    # flat CO straddling the x boundary of the cell, then wrapped
+    ads = slab + Atoms("CO", positions=[[width - 0.4, 1.0, top + 2.0], [width + 0.75, 1.0, top + 2.0]])
+    ads.wrap()
+    assert np.ptp(ads.positions[n_slab:, 0]) > 2.0  # really split
+    m_c, m_o = 12.011, 15.999
+    assert inertia_about_normal(ads, [n_slab, n_slab + 1]) == pytest.approx(
+        m_c * m_o / (m_c + m_o) * 1.15**2, rel=1e-10)
+
+
+@pytest.mark.parametrize("normal", [[0, 0, 0], [1, 2], [np.nan, 0, 1], "z"])
+def test_inertia_bad_normal(normal):
+    with pytest.raises(InputError, match="normal"):
+        inertia_about_normal(_co_on_pt(), None, normal=normal)
+
+
+# ---------------------------------------------------------------------------
+# normal-mode overlaps and assignment
+# ---------------------------------------------------------------------------
+
+
+def _modes_from_hessian(masses, hessian):
+    """Frequencies (cm^-1, imaginary as negative) and Cartesian displacement modes of a Hessian in eV/Å^2,
+    the way ASE's VibrationsData defines them (mass-weighted unit eigenvectors / sqrt(m))."""
+    w = np.repeat(1.0 / np.sqrt(masses), 3)
+    evals, evecs = np.linalg.eigh(hessian * np.outer(w, w))
+    # omega = sqrt(k/m): eV/Å^2/amu -> s^-2 -> cm^-1
+    omega = np.sqrt(np.abs(evals) * constants.eV / constants.angstrom**2 / constants.amu)
+    freq = np.sign(evals) * omega / (2 * np.pi * constants.c * 100)
+    modes = (evecs.T * w).reshape(len(evals), len(masses), 3)
+    return freq, modes
+
+
+def _toy_adsorbate():
+    """Invented planar triatomic adsorbate (OCH-like masses) with a made-up harmonic potential:
+    stiff bonds, weak mass-proportional in-plane tethers, a torsion about the normal, stiffer z tethers."""
+    atoms = Atoms("OCH", positions=[[0.0, 0.0, 10.0], [1.2, 0.0, 10.0], [1.7, 0.95, 10.0]],
+                  cell=[[5.0 * math.cos(0.4), 5.0 * math.sin(0.4), 0], [-5.0 * math.sin(0.4), 5.0 * math.cos(0.4), 0],
+                        [0, 0, 20]], pbc=[True, True, False])
+    m = atoms.get_masses()
+    pos = atoms.positions
+    n = len(atoms)
+    hess = np.zeros((3 * n, 3 * n))
+    for i, j in [(0, 1), (1, 2), (0, 2)]:  # bond springs, 20 eV/Å^2 (invented)
+        u = pos[j] - pos[i]
+        u /= np.linalg.norm(u)
+        block = 20.0 * np.outer(u, u)
+        for a, b, s in [(i, i, 1), (j, j, 1), (i, j, -1), (j, i, -1)]:
+            hess[3 * a:3 * a + 3, 3 * b:3 * b + 3] += s * block
+    for i in range(n):  # tethers proportional to mass: rigid translations stay exact eigenvectors
+        hess[3 * i:3 * i + 3, 3 * i:3 * i + 3] += np.diag([0.01, 0.01, 0.2]) * m[i]
+    com = m @ pos / m.sum()
+    g = (m[:, None] * np.cross([0, 0, 1.0], pos - com)).ravel()
+    inertia = float(np.sum(m * np.sum((pos - com)[:, :2] ** 2, axis=1)))
+    # torsion about the normal: V = kappa theta^2 / 2 with theta = g . d / I, kappa = 0.5 I eV (invented)
+    hess += 0.5 * inertia * np.outer(g, g) / inertia**2
+    return atoms, m, hess
+
+
+def test_toy_adsorbate_assignment():
+    atoms, m, hess = _toy_adsorbate()
+    freq, modes = _modes_from_hessian(m, hess)
+    ov = rigid_motion_overlaps(atoms, [0, 1, 2], modes)
+    assert ov.shape == (9, 3)
+    assert np.all((ov >= 0) & (ov <= 1))
+    # completeness of a full set of 3n orthonormal modes: each rigid motion is spread over them with total 1
+    np.testing.assert_allclose(ov.sum(axis=0), 1.0, rtol=1e-10)
+    result = assign_soft_modes(ov, freq)
+    # by construction two degenerate in-plane translations (eigh mixes them arbitrarily) and one torsion
+    t = result["translations"]
+    r = result["rotations"]
+    assert len(t) == 2 and len(r) == 1
+    np.testing.assert_allclose(result["translation_scores"], 1.0, atol=1e-8)
+    np.testing.assert_allclose(result["rotation_scores"], 1.0, atol=1e-8)
+    np.testing.assert_allclose(freq[t[0]], freq[t[1]], rtol=1e-8)
+    assert sorted(t.tolist() + r.tolist() + result["others"].tolist()) == list(range(9))
+    # scrambling order, sign and normalisation of the modes does not change the choice
+    perm = np.random.default_rng(3).permutation(9)
+    scaled = modes[perm] * np.linspace(-3, 2.5, 9)[:, None, None]
+    again = assign_soft_modes(rigid_motion_overlaps(atoms, [0, 1, 2], scaled), freq[perm])
+    assert sorted(perm[again["translations"]].tolist()) == sorted(t.tolist())
+    assert perm[again["rotations"]].tolist() == r.tolist()
+
+
+def test_overlaps_use_the_mass_weighted_metric():
+    # a CO stretch that keeps the centre of mass fixed has zero translation overlap in the
+    # mass-weighted metric (Wilson, Decius and Cross 1955); an unweighted overlap would not be zero
+    co = Atoms("CO", positions=[[0, 0, 10], [1.15, 0, 10]])
+    m_c, m_o = co.get_masses()
+    stretch = np.array([[[-m_o, 0, 0], [m_c, 0, 0]]])
+    ov = rigid_motion_overlaps(co, [0, 1], stretch, normal=[0, 0, 1])
+    np.testing.assert_allclose(ov, 0.0, atol=1e-14)
+    # a rigid x translation: overlap 1 with e1 (x, as there is no cell)
+    shift = np.array([[[0.3, 0, 0], [0.3, 0, 0]]])
+    np.testing.assert_allclose(rigid_motion_overlaps(co, [0, 1], shift, normal=[0, 0, 1]), [[1, 0, 0]], atol=1e-14)
+    # a rigid rotation about the normal through the COM, given as small Cartesian displacements
+    com = co.get_center_of_mass()
+    turn = np.cross([0, 0, 1], co.positions - com)[None] * 1e-3
+    np.testing.assert_allclose(rigid_motion_overlaps(co, [0, 1], turn, normal=[0, 0, 1]), [[0, 0, 1]], atol=1e-12)
+
+
+def test_overlap_shapes_accepted():
+    atoms, m, hess = _toy_adsorbate()
+    slab = fcc100("Cu", (2, 2, 2), vacuum=6) + atoms
+    idx = list(range(len(slab) - 3, len(slab)))
+    freq, modes = _modes_from_hessian(m, hess)
+    ref = rigid_motion_overlaps(slab, idx, modes)
+    full = np.zeros((9, len(slab), 3))
+    full[:, idx] = modes  # like get_modes(all_atoms=True)
+    np.testing.assert_allclose(rigid_motion_overlaps(slab, idx, full), ref, atol=1e-14)
+    np.testing.assert_allclose(rigid_motion_overlaps(slab, idx, modes.reshape(9, 9)), ref, atol=1e-14)
+    np.testing.assert_allclose(rigid_motion_overlaps(slab, idx, modes.astype(complex)), ref, atol=1e-14)
+
+
+@pytest.mark.parametrize(
+    ("modes", "match"),
+    [(np.zeros((2, 3, 3)), "zero"), (np.ones((2, 2, 3)), "shape"), (np.full((1, 3, 3), np.nan), "NaN"),
+     (np.ones((1, 3, 3)) * 1j, "imaginary"), ("abc", "mode_vectors"), (np.ones((0, 3, 3)), "shape")],
+)
+def test_overlaps_bad_modes(modes, match):
+    atoms, _, _ = _toy_adsorbate()
+    with pytest.raises(InputError, match=match):
+        rigid_motion_overlaps(atoms, [0, 1, 2], modes)
+
+
+def _emt_modes(adsorbate, height, mol_index, name, tmp_path):
+    """Relax an adsorbate at the hollow of a small Cu(100) slab with EMT (a toy potential) and vibrate it."""
+    from ase.calculators.emt import EMT
+    from ase.optimize import BFGS
+    from ase.vibrations import Vibrations
+
+    slab = fcc100("Cu", (2, 2, 3), vacuum=8.0)
+    add_adsorbate(slab, adsorbate, height, "hollow", mol_index=mol_index)
+    slab.set_constraint(FixAtoms(mask=slab.get_tags() > 0))
+    slab.calc = EMT()
+    BFGS(slab, logfile=None).run(fmax=0.01)
+    vib = Vibrations(slab, name=str(tmp_path / name))
+    vib.run()
+    data = vib.get_vibrations()
+    return slab, data.get_frequencies(), data.get_modes()
+
+
+def test_emt_oxygen_on_cu100_hollow(tmp_path):
+    slab, freq, modes = _emt_modes("O", 1.0, 0, "vib_o", tmp_path)
+    idx = adsorbate_indices(slab)
+    assert idx.tolist() == [12]
+    ov = rigid_motion_overlaps(slab, idx, modes)
+    with pytest.raises(InputError, match="n_rotations"):
+        assign_soft_modes(ov, freq)  # a single atom has no rotation about the normal
+    result = assign_soft_modes(ov, freq, n_rotations=0)
+    # the mode with the largest z motion is the perpendicular one (common practice for an atom in a hollow)
+    perpendicular = int(np.argmax(np.abs(modes[:, 0, 2])))
+    assert result["others"].tolist() == [perpendicular]
+    assert sorted(result["translations"].tolist()) == sorted(set(range(3)) - {perpendicular})
+    np.testing.assert_allclose(result["translation_scores"], 1.0, atol=1e-6)  # purely in-plane by symmetry
+    # the fourfold hollow makes the two in-plane modes degenerate; here the fallback rule agrees
+    assert sorted(lowest_modes(freq, 2).tolist()) == sorted(result["translations"].tolist())
+
+
+def test_emt_upright_co_on_cu100_hollow(tmp_path):
+    slab, freq, modes = _emt_modes(molecule("CO"), 1.5, 1, "vib_co", tmp_path)
+    idx = adsorbate_indices(slab)
+    assert inertia_about_normal(slab, idx) == pytest.approx(0.0, abs=1e-8)  # stays upright on the C4 axis
+    ov = rigid_motion_overlaps(slab, idx, modes)
+    np.testing.assert_allclose(ov.sum(axis=0)[:2], 1.0, rtol=1e-6)  # completeness over the 6 modes
+    np.testing.assert_allclose(ov[:, 2], 0.0, atol=1e-12)  # upright: no rotation about the normal
+    result = assign_soft_modes(ov, freq, n_rotations=0)
+    t = result["translations"]
+    # the frustrated translations are a degenerate in-plane pair carrying most of the in-plane COM motion
+    np.testing.assert_allclose(freq[t[0]].real, freq[t[1]].real, rtol=1e-4)
+    s_t = ov[:, 0] + ov[:, 1]
+    assert np.all(result["translation_scores"] > 0.5)
+    assert np.all(s_t[result["others"]] < result["translation_scores"].min())
+    # the C-O stretch (highest) and the COM-metal stretch have no in-plane character
+    assert int(np.argmax(freq.real)) in result["others"]
+
+
+def test_lowest_modes():
+    freq = np.array([300.0 + 0j, 50j, 12.0, 0.0, -80.0])
+    # ASE-style imaginary 50j counts as -50; a negative real as itself
+    assert lowest_modes(freq, 3).tolist() == [4, 1, 3]
+    assert lowest_modes([5.0, 1.0, 1.0], 2).tolist() == [1, 2]  # ties keep input order
+    assert lowest_modes([5.0], 0).tolist() == []
+    with pytest.raises(InputError, match="only 1 modes"):
+        lowest_modes([5.0], 2)
+    with pytest.raises(InputError, match="frequencies"):
+        lowest_modes([], 0)
+    with pytest.raises(InputError, match="non-negative integer"):
+        lowest_modes([1.0, 2.0], 1.5)
+
+
+def test_assign_soft_modes_tie_break_and_errors():
+    ov = np.array([[0.5, 0.5, 0.0], [0.5, 0.5, 0.0], [0.5, 0.5, 0.0], [0.0, 0.0, 1.0]])
+    res = assign_soft_modes(ov, [30.0, 10.0, 20.0, 40.0])
+    assert res["translations"].tolist() == [1, 2]  # equal scores: lower frequency wins
+    assert res["rotations"].tolist() == [3]
+    assert res["others"].tolist() == [0]
+    with pytest.raises(InputError, match="frequencies"):
+        assign_soft_modes(ov, [1.0, 2.0])
+    with pytest.raises(InputError, match="overlaps"):
+        assign_soft_modes(ov[:, :2], [1.0, 2.0, 3.0, 4.0])
+    with pytest.raises(InputError, match="overlaps"):
+        assign_soft_modes(ov * 2.0, [1.0, 2.0, 3.0, 4.0])
+    with pytest.raises(InputError, match="n_translations"):
+        assign_soft_modes(ov, [1.0, 2.0, 3.0, 4.0], n_translations=4)
+    with pytest.raises(InputError, match="n_rotations"):
+        assign_soft_modes(ov, [1.0, 2.0, 3.0, 4.0], n_rotations=-1)
+    none = assign_soft_modes(ov, [1.0, 2.0, 3.0, 4.0], n_translations=0, n_rotations=0)
+    assert none["others"].tolist() == [0, 1, 2, 3]
