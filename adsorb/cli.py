@@ -19,6 +19,7 @@ from collections.abc import Sequence
 # subcommand name -> (module, one-line help)
 SUBCOMMANDS = {
     "gas": ("adsorb.commands.gas", "thermochemistry table of a gas molecule from a structure and frequencies"),
+    "compare-models": ("adsorb.commands.compare", "one adsorbate under every applicable model, with a recommendation"),
 }
 
 
