@@ -274,3 +274,32 @@ def test_command_toml_input_and_errors(capsys, tmp_path):
     assert "adsorbate.mass_amo: unknown key (did you mean 'mass_amu'?)" in err and len(err.strip().splitlines()) == 1
     code = main(["compare-models", "--temperatures", "300"])
     assert code == 2 and "frequencies are missing" in capsys.readouterr().err
+
+
+def test_command_with_a_gas_structure(capsys, tmp_path):
+    # the gas route: a CO molecule from a structure file and its frequency, through adsorb.gas
+    import ase
+    import ase.io
+
+    from adsorb.cli import main
+
+    # CO bond length 1.12832 Å, Huber & Herzberg 1979 (from memory)
+    ase.io.write(tmp_path / "co.xyz", ase.Atoms("CO", positions=[[0, 0, 0], [0, 0, 1.12832]]))
+    case = tmp_path / "co.toml"
+    case.write_text(
+        'name = "CO on an invented surface"\n'
+        "[temperature]\nvalues_K = [298.15, 500.0]\n"
+        # invented adsorbate frequencies
+        "[adsorbate]\nfrequencies_cm = [2050, 400, 350, 300, 60, 55]\nmass_amu = 28.01\nsite_spacing_A = 2.77\n"
+        # CO fundamental 2143.27 cm^-1 (ΔG1/2), Huber & Herzberg 1979 (from memory)
+        '[gas]\nstructure = "co.xyz"\nfrequencies_cm = [2143.27]\n', encoding="utf-8")
+    code = main(["compare-models", str(case), "--json"])
+    data = json.loads(capsys.readouterr().out)
+    assert code == 0
+    # S°(CO, 1 bar): 197.653 and 212.831 J/(mol K), NIST-JANAF 4th ed. (Chase 1998), table C-093;
+    # rigid rotor + harmonic oscillator reproduces them to 0.1 J/(mol K)
+    np.testing.assert_allclose(data["gas_standard_entropy_J_mol_K"], [197.653, 212.831], atol=0.1)
+    np.testing.assert_allclose(data["correlation"]["entropy_J_mol_K"],
+                               0.70 * np.array(data["gas_standard_entropy_J_mol_K"]) - 3.3 * R, rtol=1e-12)
+    assert set(data["models"]) == {"harmonic", "lattice-gas", "2d-gas"}
+    assert "translation_barrier" in data["skipped"]["hindered"]
