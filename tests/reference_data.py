@@ -159,6 +159,41 @@ TOLERANCES = (
     + _tolerances("CH4", 0.1, 0.05, 0.1, 0.05, 0.1, 0.05, 0.01)
 )
 
+# ---------------------------------------------------------------- RRHO columns (secondary, regression)
+# The compilation's own RRHO calculation with the inputs of CONSTANTS (gas-reference-data.md §3.1:
+# scipy.constants, B0 and observed fundamentals, 1 bar). Tier 1 of §4: an implementation of the same
+# formulas should reproduce them to 0.005 J/mol/K and 0.001 kJ/mol. "H2" is the explicit J-sum with
+# D0 = 0.0471 and equilibrium ortho/para weights; "H2-classical" the classical rotor.
+_RRHO = "gas-reference-data.md §3.2/§3.3, RRHO computed by the compiler (scipy.constants)"
+_RRHO_TABLE = {
+    # species: (S298, Cp298, S500, Cp500, S1000, Cp1000, H298-H0)
+    "Ar": (154.846, 20.786, 165.592, 20.786, 180.000, 20.786, 6.197),
+    "He": (126.153, 20.786, 136.900, 20.786, 151.307, 20.786, 6.197),
+    "H2": (130.688, 28.843, 145.750, 29.274, 166.242, 30.217, 8.468),
+    "H2-classical": (130.551, 29.101, 145.597, 29.108, 165.913, 29.853, 8.676),
+    "N2": (191.600, 29.114, 206.723, 29.560, 228.123, 32.613, 8.677),
+    "O2": (205.132, 29.358, 220.661, 31.037, 243.467, 34.673, 8.687),
+    "CO": (197.649, 29.129, 212.816, 29.767, 234.482, 33.077, 8.677),
+    "CO2": (213.787, 37.147, 234.907, 44.643, 269.277, 54.151, 9.367),
+    "H2O": (188.716, 33.482, 206.359, 35.118, 232.464, 41.024, 9.925),
+    "NH3": (193.115, 35.479, 212.809, 41.448, 246.091, 55.647, 10.048),
+    "CH4": (186.319, 35.640, 207.082, 46.342, 247.616, 71.793, 10.024),
+}
+_RRHO_KEYS = [("S", 298.15), ("Cp", 298.15), ("S", 500.0), ("Cp", 500.0), ("S", 1000.0), ("Cp", 1000.0),
+              ("H-H0", 298.15)]
+RRHO = [Ref(sp, q, t, v, f"{_RRHO}, {sp}")
+        for sp, values in _RRHO_TABLE.items() for (q, t), v in zip(_RRHO_KEYS, values)]
+# Tier-1 tolerances, gas-reference-data.md §4
+RRHO_TOLERANCE = {"S": 0.005, "Cp": 0.005, "H-H0": 0.001}
+
+# H2 with the classical rotor against JANAF H-050: §4 Tier 2, row "H2, classical rotor"
+H2_CLASSICAL_TOLERANCES = [
+    Tol("H2", "S", 298.15, 0.2, _T4), Tol("H2", "Cp", 298.15, 0.3, _T4),
+    Tol("H2", "S", 500.0, 0.2, _T4), Tol("H2", "Cp", 500.0, 0.2, _T4),
+    Tol("H2", "S", 1000.0, 0.4, _T4), Tol("H2", "Cp", 1000.0, 0.4, _T4),
+    Tol("H2", "H-H0", 298.15, 0.25, _T4),
+]
+
 # ---------------------------------------------------------------- molecular inputs
 _HH = "Huber & Herzberg 1979, Constants of Diatomic Molecules (marked from memory in gas-reference-data.md §2)"
 _SHIM = "Shimanouchi 1972, NSRDS-NBS 39 (marked from memory in gas-reference-data.md §2b)"
