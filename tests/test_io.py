@@ -615,13 +615,6 @@ def test_vasp_outcar_energy_is_sigma_to_zero(tmp_path):
 # adsorbate rule of adsorb.geometry (explicit indices, else atoms not frozen) picks the right atoms
 
 
-def _adsorbate_rule():
-    geometry = pytest.importorskip("adsorb.geometry")
-    if not hasattr(geometry, "adsorbate_indices"):
-        pytest.skip("adsorb.geometry.adsorbate_indices has not landed yet")
-    return geometry.adsorbate_indices
-
-
 def _co_on_frozen_pt(partial=None):
     """CO on Pt(111) 2x2x3 (atoms 12 = C, 13 = O) with every Pt atom frozen by FixAtoms."""
     from ase.constraints import FixAtoms, FixCartesian, FixScaled
@@ -654,7 +647,7 @@ def _co_on_frozen_pt(partial=None):
 def test_constraints_round_trip_give_adsorbate(tmp_path, name, fmt, partial):
     import ase.io
 
-    adsorbate_indices = _adsorbate_rule()
+    from adsorb.geometry import adsorbate_indices
 
     path = tmp_path / name
     ase.io.write(path, _co_on_frozen_pt(partial), format=fmt)
@@ -666,7 +659,7 @@ def test_constraints_round_trip_give_adsorbate(tmp_path, name, fmt, partial):
 
 
 def test_hand_written_extxyz_move_mask(tmp_path):
-    adsorbate_indices = _adsorbate_rule()
+    from adsorb.geometry import adsorbate_indices
 
     path = tmp_path / "hand.xyz"
     # move_mask F = frozen (ASE's extxyz convention, ase-io reference note section 7)
@@ -686,7 +679,7 @@ def test_hand_written_extxyz_move_mask(tmp_path):
 def test_db_constraints_give_adsorbate(tmp_path):
     import ase.db
 
-    adsorbate_indices = _adsorbate_rule()
+    from adsorb.geometry import adsorbate_indices
 
     path = tmp_path / "c.db"
     ase.db.connect(str(path), append=False).write(_co_on_frozen_pt("cartesian"), role="adsorbate")
