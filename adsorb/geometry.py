@@ -9,7 +9,13 @@ structure into the numbers the rotational and adsorbate models need:
 * the shape class: ``'monatomic'``, ``'linear'`` or ``'nonlinear'``;
 * the rotational symmetry number, found by searching the proper rotations
   that map the molecule onto itself;
-* rotational constants in cm^-1 from moments of inertia.
+* rotational constants in cm^-1 from moments of inertia;
+* for an adsorbate on a slab: which atoms are the adsorbate (from the
+  constraints), the surface normal, the moment of inertia about the normal,
+  and which normal modes are the frustrated in-plane translations and the
+  rotation about the normal (mass-weighted overlaps with rigid motions).
+
+The methods, tolerances and limits are described in docs/methods-geometry.md.
 
 Units at the boundary: lengths in Å, masses in amu, moments of inertia in
 amu Å^2, rotational constants in cm^-1. Constants come from
@@ -273,9 +279,10 @@ def molecular_shape(atoms, *, tolerance: float = 1e-3) -> str:
     Exact-zero tests fail after a real relaxation; the relative test does not.
     For a triatomic like CO2 the ratio grows roughly as the square of the
     deviation from 180 degrees: one O moved 0.002 Å off the axis (179.90
-    degrees) gives about 2e-7, a 176 degree CO2 about 1e-3, and H2O about 0.35.
-    So the default 1e-3 calls anything straighter than about 176 degrees
-    (for CO2) linear.
+    degrees) gives about 2e-7, a symmetric CO2 bent to 176 degrees 3.3e-4, to
+    173 degrees about 1e-3, to 170 degrees 2.1e-3; H2O gives about 0.35.
+    So the default 1e-3 calls a CO2 straighter than about 173 degrees
+    linear.
 
     Parameters
     ----------
@@ -488,7 +495,9 @@ def rotational_symmetry_number(atoms, *, tolerance: float = 0.05, shape_toleranc
     * one atom: 1;
     * linear (see :func:`molecular_shape` with ``shape_tolerance``): 2 when
       inversion through the centre of mass maps the molecule onto itself
-      (then a C2 perpendicular to the axis exists), else 1;
+      (then a C2 perpendicular to the axis exists), or, for a molecule that
+      is linear only within the shape tolerance, when a C2 perpendicular to
+      its axis does; else 1;
     * nonlinear: the positions are taken about the centre of mass (after
       :func:`unwrapped_positions`); candidate axes are the principal axes, the
       atom position vectors, the midpoints of pairs of equivalent atoms, the
@@ -511,7 +520,8 @@ def rotational_symmetry_number(atoms, *, tolerance: float = 0.05, shape_toleranc
         The molecule (at least one atom).
     tolerance : float, optional
         Largest allowed displacement, in Å, between an atom's image and the
-        atom it is matched with, default 0.05 Å.
+        atom it is matched with, default 0.05 Å. Must be less than half the
+        shortest interatomic distance.
     shape_tolerance : float, optional
         Relative tolerance passed to :func:`molecular_shape`, default 1e-3.
 
@@ -524,7 +534,8 @@ def rotational_symmetry_number(atoms, *, tolerance: float = 0.05, shape_toleranc
     ------
     InputError
         If ``atoms`` is not a non-empty ``ase.Atoms``, a tolerance is not a
-        positive number, or the tolerance is so loose that the operations
+        positive number, ``tolerance`` is not below half the shortest
+        interatomic distance, or the tolerance is so loose that the operations
         found do not form a group of at most 240 rotations.
     """
     tol = _check_tolerance(tolerance, "tolerance")
@@ -536,10 +547,42 @@ def rotational_symmetry_number(atoms, *, tolerance: float = 0.05, shape_toleranc
     labels = _equivalence_classes(atoms, m)
     if shape == "monatomic":
         return 1
+    dist = np.linalg.norm(rel[:, None, :] - rel[None, :, :], axis=2)
+    shortest = float(dist[np.triu_indices(len(rel), 1)].min())
+    if tol >= 0.5 * shortest:
+        msg = (
+            f"tolerance: got {tol} Å, but the shortest interatomic distance is {shortest:.4g} Å; "
+            f"expected less than half of it ({0.5 * shortest:.4g} Å) so that atoms match unambiguously"
+        )
+        raise InputError(msg)
+    matcher = _Matcher(rel, labels, tol)
     if shape == "linear":
-        inversion = _Matcher(rel, labels, tol).permutation(-np.eye(3))
-        return 2 if inversion is not None else 1
+        return 2 if _has_perpendicular_twofold(rel, labels, axes, matcher) else 1
     return len(_rotation_group(rel, labels, axes, tol))
+
+
+def _has_perpendicular_twofold(rel, labels, axes, matcher) -> bool:
+    """For a (nearly) linear molecule: does inversion or a C2 perpendicular to its axis map it onto itself?
+
+    For an exactly linear molecule the two are equivalent. For one that is
+    linear only within the shape tolerance (slightly bent), the C2 lies along
+    the bisector: a principal axis perpendicular to the line, or the
+    perpendicular part of the midpoint of two equivalent atoms.
+    """
+    if matcher.permutation(-np.eye(3)) is not None:
+        return True
+    line = axes[0]
+    cands = [axes[1], axes[2]]
+    for lab in np.unique(labels):
+        members = np.flatnonzero(labels == lab)
+        for i, j in combinations(members, 2):
+            v = rel[i] + rel[j]
+            cands.append(v - (v @ line) * line)
+    for v in cands:
+        size = np.linalg.norm(v)
+        if size > 1e-8 and matcher.permutation(_rotation_matrix(v / size, math.pi)) is not None:
+            return True
+    return False
 
 
 # ---------------------------------------------------------------------------
@@ -776,6 +819,11 @@ def inertia_about_normal(atoms, indices=None, normal=None) -> float:
     return float(np.dot(m, np.einsum("ij,ij->i", perp, perp)))
 
 
+#: atoms closer than this to the rotation axis (Å) count as lying on it, so
+#: a single atom or an upright linear adsorbate has no rotation about the normal
+_ON_AXIS_A = 1e-6
+
+
 def _in_plane_directions(atoms, n: np.ndarray):
     """Two orthonormal in-plane unit vectors: e1 along the projection of a1 (or x), e2 = n x e1."""
     cell = np.asarray(atoms.cell[:], dtype=float)
@@ -805,8 +853,9 @@ def rigid_motion_overlaps(atoms, indices, mode_vectors, normal=None) -> np.ndarr
 
     These three vectors are mutually orthogonal. The result for mode k is
     (q_k . t)^2 for each, so each entry is in [0, 1] and each row sums to at
-    most 1. If the adsorbate has no moment about the normal (one atom, or
-    atoms on a line along the normal) the rotation column is 0.
+    most 1. If every adsorbate atom lies within 1e-6 Å of the normal through
+    the centre of mass (one atom, or an upright linear adsorbate) there is no
+    rotation and that column is 0.
 
     Parameters
     ----------
@@ -872,15 +921,14 @@ def rigid_motion_overlaps(atoms, indices, mode_vectors, normal=None) -> np.ndarr
     total = m.sum()
     t1 = (sqrt_m * e1).ravel() / math.sqrt(total)
     t2 = (sqrt_m * e2).ravel() / math.sqrt(total)
-    rot = (sqrt_m * np.cross(n, rel)).ravel()
-    rot_norm = np.linalg.norm(rot)
+    arm = np.cross(n, rel)  # lever arm of each atom about the normal through the COM, Å
     out = np.empty((len(q), 3))
     out[:, 0] = (q @ t1) ** 2
     out[:, 1] = (q @ t2) ** 2
-    scale = math.sqrt(float(np.dot(m, np.einsum("ij,ij->i", rel, rel))))
-    if rot_norm > 1e-8 * max(scale, 1e-300):
-        out[:, 2] = (q @ (rot / rot_norm)) ** 2
-    else:
+    if np.linalg.norm(arm, axis=1).max() > _ON_AXIS_A:
+        rot = (sqrt_m * arm).ravel()
+        out[:, 2] = (q @ (rot / np.linalg.norm(rot))) ** 2
+    else:  # one atom, or all atoms on the axis: no rotation exists
         out[:, 2] = 0.0
     return np.clip(out, 0.0, 1.0)
 

@@ -223,7 +223,7 @@ def test_slightly_bent_co2_is_linear():
 
 
 def test_clearly_bent_co2_is_nonlinear():
-    # a 170 degree "CO2" has I_min/I_max ~ 6e-3 > 1e-3
+    # a 170 degree "CO2" has I_min/I_max = 2.1e-3 > 1e-3
     d = 1.16
     half = math.radians(85.0)
     a = Atoms("CO2", positions=[[0, 0, 0], [d * math.sin(half), 0, d * math.cos(half)],
@@ -306,8 +306,53 @@ def test_symmetry_number_breaks_for_real_distortion():
     n = a.positions[0]
     a.positions[1] = n + (a.positions[1] - n) * (1 + 0.2 / np.linalg.norm(a.positions[1] - n))
     assert rotational_symmetry_number(a) == 1
-    # ... unless the tolerance is made absurdly loose
-    assert rotational_symmetry_number(a, tolerance=0.5) == 3
+    # ... unless the tolerance is made loose enough to hide the distortion
+    assert rotational_symmetry_number(a, tolerance=0.3) == 3
+
+
+def test_symmetry_tolerance_must_stay_below_half_the_shortest_distance():
+    # N-H is about 1.02 Å in NH3, so 0.6 Å would let atoms match ambiguously
+    with pytest.raises(InputError, match="shortest interatomic distance"):
+        rotational_symmetry_number(molecule("NH3"), tolerance=0.6)
+
+
+def test_symmetry_operations_that_do_not_form_a_group_are_reported():
+    # an invented, strongly distorted CH4: at 0.3 Å some rotations fit but their products do not
+    a = Atoms("CH4", positions=[[0.0349, -0.086, 0.1267], [0.5488, 0.6841, 0.5621], [-0.5603, -0.6521, 0.6386],
+                                [0.6323, -0.5633, -0.6484], [-0.8066, 0.5837, -0.6181]])
+    assert rotational_symmetry_number(a, tolerance=0.05) == 1
+    with pytest.raises(InputError, match="do not form a group"):
+        rotational_symmetry_number(a, tolerance=0.3)
+
+
+def test_rotation_group_size_guard():
+    # the guard against a runaway closure, exercised with a small limit on CH4 (order 12)
+    from adsorb.geometry import _principal, _rotation_group
+
+    ch4 = molecule("CH4")
+    _, axes, rel = _principal(ch4.get_masses(), ch4.positions)
+    labels = np.array([0, 1, 1, 1, 1])
+    assert len(_rotation_group(rel, labels, axes, 0.05)) == 12
+    with pytest.raises(InputError, match="more than 10 rotations"):
+        _rotation_group(rel, labels, axes, 0.05, max_order=10)
+
+
+def _bent_triatomic(symbols, d1, d2, angle_deg):
+    half = math.radians(angle_deg / 2)
+    return Atoms(symbols, positions=[[0, 0, 0], [d1 * math.sin(half), 0, d1 * math.cos(half)],
+                                     [-d2 * math.sin(half), 0, d2 * math.cos(half)]])
+
+
+def test_nearly_linear_symmetric_molecule_keeps_its_twofold_axis():
+    # a CO2 bent to 176 degrees is linear within the default shape tolerance (I_min/I_max = 3.3e-4);
+    # inversion no longer maps it (O off by ~0.08 Å) but the C2 along the bisector does: sigma = 2
+    co2 = _bent_triatomic("CO2", 1.16, 1.16, 176.0)
+    assert molecular_shape(co2) == "linear"
+    assert rotational_symmetry_number(co2) == 2
+    # an unsymmetric one (OCS-like bond lengths) has no twofold axis: sigma = 1
+    ocs = _bent_triatomic("COS", 1.16, 1.56, 176.0)
+    assert molecular_shape(ocs) == "linear"
+    assert rotational_symmetry_number(ocs) == 1
 
 
 def test_symmetry_number_isotopes():
@@ -746,3 +791,29 @@ def test_assign_soft_modes_tie_break_and_errors():
         assign_soft_modes(ov, [1.0, 2.0, 3.0, 4.0], n_rotations=-1)
     none = assign_soft_modes(ov, [1.0, 2.0, 3.0, 4.0], n_translations=0, n_rotations=0)
     assert none["others"].tolist() == [0, 1, 2, 3]
+
+
+from hypothesis import given  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+
+@given(seed=st.integers(0, 2**32 - 1), n_atoms=st.integers(1, 5))
+def test_overlaps_are_bounded_for_any_modes(seed, n_atoms):
+    # invariant: each squared overlap in [0, 1]; the three rigid vectors are orthonormal, so a row sums to <= 1;
+    # for a complete orthonormal (mass-weighted) set of 3n modes each column sums to 1 (completeness)
+    rng = np.random.default_rng(seed)
+    symbols = rng.choice(["H", "C", "O", "Pt"], n_atoms)
+    atoms = Atoms(list(symbols), positions=rng.uniform(-2, 2, (n_atoms, 3)))
+    m = atoms.get_masses()
+    q, _ = np.linalg.qr(rng.normal(size=(3 * n_atoms, 3 * n_atoms)))
+    modes = (q.T / np.repeat(np.sqrt(m), 3)).reshape(3 * n_atoms, n_atoms, 3)
+    normal = rng.normal(size=3)
+    ov = rigid_motion_overlaps(atoms, list(range(n_atoms)), modes, normal=normal)
+    assert np.all((ov >= 0) & (ov <= 1))
+    assert np.all(ov.sum(axis=1) <= 1 + 1e-10)
+    np.testing.assert_allclose(ov[:, :2].sum(axis=0), 1.0, rtol=1e-9)
+    rot_total = ov[:, 2].sum()
+    if inertia_about_normal(atoms, list(range(n_atoms)), normal=normal) > 1e-6:
+        assert rot_total == pytest.approx(1.0, rel=1e-8)
+    else:
+        assert rot_total == 0.0
