@@ -385,10 +385,7 @@ class Adsorbate:
         return lowfreq.quasi_rrho(t, nu, cutoff_cm=self.frequency_floor)
 
     def _check_closed_form(self, t):
-        checker = getattr(_hindered, "closed_form_reliable", None)
-        if checker is None or self.solver == "exact":
-            return
-        ok = checker(t, mass_amu=self.mass, barrier_eV=self.translation_barrier, spacing_A=self.site_spacing,
+        ok = _hindered.closed_form_reliable(t, mass_amu=self.mass, barrier_eV=self.translation_barrier, spacing_A=self.site_spacing,
                      **({"inertia_amu_A2": self.inertia, "rotation_barrier_eV": self.rotation_barrier,
                          "n_minima": self.rotation_minima} if self._has_rotor else {}))
         if not np.all(ok):
@@ -412,10 +409,13 @@ class Adsorbate:
         if self.solver == "exact":
             from adsorb.partition import periodic
 
-            part = 2 * [periodic.cosine_translator(t, self.mass, self.translation_barrier, self.site_spacing)]
+            one = periodic.lattice_translator(t, self.mass, self.site_spacing,
+                                              periodic.cosine_terms(self.translation_barrier))
+            part = [one, one]
             if self._has_rotor:
-                part.append(periodic.cosine_rotor(t, self.inertia, self.rotation_barrier,
-                                                  self.rotation_minima, self.symmetry_number))
+                part.append(periodic.ring_rotor(
+                    t, self.inertia, periodic.cosine_terms(self.rotation_barrier, self.rotation_minima),
+                    symmetry_number=self.symmetry_number))
         else:
             note = self._check_closed_form(t)
             if note:

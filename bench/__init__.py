@@ -1,0 +1,1 @@
+"""Benchmarks of adsorb (not tests): run with ``python -m bench``."""
