@@ -3,6 +3,8 @@
 Published values: NIST-JANAF (Chase 1998) S°, Cp° and H°(298.15)-H°(0) within the
 recommended tolerances of gas-reference-data.md §4, CODATA Ar entropy; limits and
 identities (G = H - TS = E + ZPE - kT ln Q, S = -dG/dT, Cp = dH/dT, pressure dependence).
+
+Equation numbers of McQuarrie, Statistical Mechanics (1976), are quoted from memory.
 """
 
 import json

@@ -2,6 +2,8 @@
 
 Each model gets a published value, a physical limit and thermodynamic identities
 (A = U - TS = -kT ln q, S = -dA/dT and Cv = dU/dT by central differences).
+
+Equation numbers of McQuarrie, Statistical Mechanics (1976), are quoted from memory.
 """
 
 import warnings

@@ -203,7 +203,7 @@ def linear_rotor_levels(temperature, b_cm, *, d_cm=0.0, symmetry_number=1,
     """Linear rotor by explicit summation over rotational levels.
 
     q = (1/σ') Σ_J w_J (2J+1) exp[-(E_J - E_min)/kT] with term values
-    E_J = hc [B J(J+1) - D J^2 (J+1)^2] (Herzberg 1950, eq. III,150).
+    E_J = hc [B J(J+1) - D J^2 (J+1)^2] (Herzberg 1950, ch. III).
     Without nuclear spin w_J = 1 and σ' = σ (the usual high-temperature
     correction for a homonuclear molecule). With ``nuclear_spin`` = I the
     molecule is a homonuclear diatomic in equilibrium between its ortho and
