@@ -60,6 +60,11 @@ class Contribution:
         return Contribution(z, z, z, z, 0.0)
 
     def free_energy(self, temperature):
-        """Helmholtz free energy A = zpe + U - TS (= zpe - kT ln q), eV."""
+        """Helmholtz free energy A = zpe + U - TS in eV.
+
+        Equals zpe - kT ln q for every motion except 3D translation, whose
+        ``ln_q`` is the per-molecule ln[kT/(p Λ^3)] and whose entropy includes
+        the ln N! term: there A = -kT (ln q + 1).
+        """
         t = np.asarray(temperature, dtype=float)
         return self.zpe + self.energy - t * self.entropy
