@@ -20,6 +20,9 @@ from collections.abc import Sequence
 SUBCOMMANDS = {
     "gas": ("adsorb.commands.gas", "thermochemistry table of a gas molecule from a structure and frequencies"),
     "compare-models": ("adsorb.commands.compare", "one adsorbate under every applicable model, with a recommendation"),
+    "check": ("adsorb.commands.check", "validate a TOML case file and show what would be computed"),
+    "run": ("adsorb.commands.run", "compute a case and write results.json, tables, plots and report.html"),
+    "batch": ("adsorb.commands.batch", "adsorption free energies (and coverages) for many ase.db rows"),
 }
 
 

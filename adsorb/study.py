@@ -316,7 +316,8 @@ class _Study:
 def _state_label(state):
     """'O2 + * + 4(H+ + e-)' from ((name, count), ...)."""
     parts = []
-    for name, n in state:
+    order = {"*": 1, "(H+ + e-)": 3}
+    for name, n in sorted(state, key=lambda kv: order.get(kv[0], 0 if kv[0].endswith("*") else 2)):
         coef = "" if abs(n - 1) < 1e-12 else f"{n:g}"
         parts.append(f"{coef}{name}" if name in ("*", "(H+ + e-)") else f"{coef} {name}".strip())
     return " + ".join(parts) if parts else "(empty)"

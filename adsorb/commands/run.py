@@ -1,0 +1,75 @@
+"""``adsorb run CASE.toml --out DIR``: compute a study and write its results folder.
+
+DIR receives results.json, CSV tables, PNG + SVG plots and report.html
+(docs/report.md). Everything is written into a temporary folder next to DIR
+and renamed at the end, so a failed or interrupted run leaves nothing behind
+(no DIR when it did not exist). A non-empty DIR is refused unless ``--force``
+(then it is replaced as a whole). Bad input: exit 2 with one line per problem.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import shutil
+import sys
+import tempfile
+from pathlib import Path
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    """Options of ``adsorb run`` (nothing heavy imported here)."""
+    parser.add_argument("case", help="TOML case file (see docs/case-file.md)")
+    parser.add_argument("--out", required=True, metavar="DIR", help="results folder to create")
+    parser.add_argument("--force", action="store_true", help="replace DIR when it exists and is not empty")
+
+
+def _readable(folder: Path) -> None:
+    """Give the written files the permissions the user's umask allows (temporary files are private)."""
+    umask = os.umask(0)
+    os.umask(umask)
+    for path in [folder, *folder.iterdir()]:
+        os.chmod(path, (0o777 if path.is_dir() else 0o666) & ~umask)
+
+
+def run(args) -> int:
+    from adsorb.errors import InputError
+
+    out = Path(args.out)
+    if out.exists() and not out.is_dir():
+        raise InputError(f"--out {out}: exists and is not a folder; expected a folder name")
+    if out.is_dir() and any(out.iterdir()) and not args.force:
+        raise InputError(f"--out {out}: the folder is not empty; use --force to replace it")
+
+    from adsorb.case import CaseError, load_case
+
+    try:
+        case = load_case(args.case)
+    except CaseError as exc:
+        for line in exc.problems:
+            print(f"adsorb run: error: {line}", file=sys.stderr)
+        return 2
+    from adsorb.report import write_results
+    from adsorb.study import run_study
+
+    parent = out.resolve().parent
+    parent.mkdir(parents=True, exist_ok=True)
+    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.partial-", dir=parent))
+    try:
+        doc = write_results(run_study(case), tmp)
+        _readable(tmp)
+        if out.exists():
+            old = Path(tempfile.mkdtemp(prefix=f".{out.name}.old-", dir=parent))
+            os.replace(out, old / "x")
+            os.replace(tmp, out)
+            shutil.rmtree(old, ignore_errors=True)
+        else:
+            os.replace(tmp, out)
+    except BaseException:
+        shutil.rmtree(tmp, ignore_errors=True)
+        raise
+    print(f"wrote {out}/report.html, results.json, {len(doc['files']['tables'])} tables, "
+          f"{len(doc['files']['plots'])} plots")
+    for w in doc["warnings"]:
+        print(f"warning: {w}", file=sys.stderr)
+    return 0

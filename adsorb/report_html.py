@@ -1,0 +1,160 @@
+"""One self-contained HTML page from a results document: inputs, tables, plots, assumptions, cautions.
+
+Images are embedded as base64 PNG data URIs; the page references no external
+file, script or style sheet. Sections (docs/report.md): summary, cautions,
+inputs (the case file echoed, input files with SHA-256), conditions, species,
+equilibria, coverages, isotherms and maps, free-energy diagrams, model
+comparison, assumptions, warnings, versions.
+"""
+
+from __future__ import annotations
+
+import base64
+from html import escape
+from pathlib import Path
+
+from adsorb.fileout import write_text_atomic
+
+__all__ = ["render_html", "write_html"]
+
+_STYLE = """body{font-family:sans-serif;max-width:70em;margin:2em auto;padding:0 1em;color:#222}
+table{border-collapse:collapse;margin:.5em 0 1.5em;font-size:.85em}td,th{border:1px solid #bbb;padding:.2em .5em;
+text-align:right}th{background:#eee}td.l,th.l{text-align:left}pre{background:#f6f6f6;padding:.8em;overflow-x:auto;
+font-size:.8em}.caution{background:#fff4e0;border-left:4px solid #e69500;padding:.5em 1em}
+.warn{background:#fdeaea;border-left:4px solid #c33;padding:.5em 1em}img{max-width:100%}"""
+
+
+def _fmt(v, digits=4):
+    if isinstance(v, bool) or v is None:
+        return escape(str(v))
+    if isinstance(v, float):
+        return f"{v:.{digits}g}" if abs(v) >= 1e-3 or v == 0 else f"{v:.3e}"
+    return escape(str(v))
+
+
+def _table(header, rows, left=1):
+    h = "".join(f"<th class='l'>{escape(str(x))}</th>" if i < left else f"<th>{escape(str(x))}</th>"
+                for i, x in enumerate(header))
+    body = "".join("<tr>" + "".join(f"<td class='l'>{_fmt(x)}</td>" if i < left else f"<td>{_fmt(x)}</td>"
+                                    for i, x in enumerate(r)) + "</tr>" for r in rows)
+    return f"<table><tr>{h}</tr>{body}</table>"
+
+
+def _items(values, cls=None):
+    if not values:
+        return "<p>None.</p>"
+    inner = "<ul>" + "".join(f"<li>{escape(str(v))}</li>" for v in values) + "</ul>"
+    return f"<div class='{cls}'>{inner}</div>" if cls else inner
+
+
+def _pick(n, count=9):
+    """Indices of at most ``count`` evenly spread rows out of n."""
+    if n <= count:
+        return list(range(n))
+    return sorted({round(i * (n - 1) / (count - 1)) for i in range(count)})
+
+
+def render_html(doc, images) -> str:
+    """The page as a string; ``images`` maps a plot title to its PNG bytes."""
+    c = doc["case"]
+    out = [f"<!DOCTYPE html><html lang='en'><head><meta charset='utf-8'><title>{escape(c['title'])}</title>"
+           f"<style>{_STYLE}</style></head><body>", f"<h1>{escape(c['title'])}</h1>"]
+    if c["description"]:
+        out.append(f"<p>{escape(c['description'])}</p>")
+    out.append(_items(c["notes"]))
+    out.append("<h2>Cautions</h2>" + _items(doc["cautions"], "caution"))
+    out.append("<h2>Warnings</h2>" + _items(doc["warnings"] + doc["notes"], "warn" if doc["warnings"] else None))
+
+    out.append("<h2>Inputs</h2>" + _table(["file", "sha256"], [[i["path"], i["sha256"]] for i in doc["inputs"]], 2))
+    out.append(f"<details><summary>Case file as run</summary><pre>{escape(doc.get('_case_text', ''))}</pre></details>")
+    cond = doc["conditions"]
+    t = cond["temperature_K"]
+    out.append("<h2>Conditions</h2>" + _table(["quantity", "value"], [
+        ["temperatures (K)", f"{min(t):g} to {max(t):g} ({len(t)} values)"],
+        ["fugacity model", cond["fugacity"]],
+        ["gas standard pressure (Pa)", cond["gas_standard_pressure_Pa"]],
+        ["default adsorbate standard state", cond["default_standard_state"] or "by model (lattice-half / savara-2d)"]]
+        + [[f"partial pressure {g} (bar)", p / 1e5] for g, p in cond["partial_pressures_Pa"].items()]))
+
+    out.append("<h2>Species</h2>")
+    out.append(_table(["gas", "electronic energy (eV)", "frequencies (cm^-1)", "S°(first T) (J/mol/K)", "source"],
+                      [[n, g["energy_eV"] if g["energy_eV"] is not None else "anchored",
+                        ", ".join(f"{v:g}" for v in g["frequencies_cm"]),
+                        g["thermo_1bar"]["entropy_J_mol_K"][0] if g["thermo_1bar"] else "-", g["source"]]
+                       for n, g in doc["gases"].items()]))
+    out.append(_table(["surface", "energy (eV)", "site area (Å^2)", "source"],
+                      [[n, s["energy_eV"], s["site_area_A2"] or "-", s["source"]] for n, s in doc["surfaces"].items()]))
+    out.append(_table(["adsorbate", "surface", "gas", "model", "energy (eV)", "modes", "S(first T) (J/mol/K)"],
+                      [[n, a["surface"], a["gas"] or "-", a["model"], a["energy_eV"], len(a["frequencies_cm"]),
+                        a["thermo"]["entropy_J_mol_K"][0]] for n, a in doc["adsorbates"].items()]))
+
+    if doc["equilibria"]:
+        out.append("<h2>Adsorption equilibria</h2><p>dG per gas molecule (gas at 1 bar, per-site adsorbate "
+                   "tables); K in Pa^-1; dG° at the named standard state.</p>")
+        for n, e in doc["equilibria"].items():
+            rows = [[e["temperature_K"][i], e["delta_energy_eV"], e["delta_zpe_eV"][i], e["minus_T_delta_S_eV"][i],
+                     e["delta_gibbs_eV"][i], e["equilibrium_constant_per_Pa"][i], e["delta_gibbs_standard_eV"][i]]
+                    for i in _pick(len(e["temperature_K"]))]
+            out.append(f"<h3>{escape(n)} from {escape(str(e['gas']))} ({'dissociative' if e['adsorbed_per_gas_molecule'] == 2 else 'molecular'}"
+                       f", model {escape(e['model'])}, standard state {escape(e['standard_state'])})</h3>")
+            out.append(_table(["T (K)", "dE (eV)", "dZPE (eV)", "-TdS (eV)", "dG (eV)", "K (1/Pa)", "dG° (eV)"], rows))
+
+    def figure(title):
+        if title in images:
+            data = base64.b64encode(images[title]).decode("ascii")
+            out.append(f"<figure><img alt='{escape(title)}' src='data:image/png;base64,{data}'>"
+                       f"<figcaption>{escape(title)}</figcaption></figure>")
+
+    if doc["coverages"]:
+        out.append("<h2>Coverages vs temperature</h2>")
+        for title in [k for k in images if k.startswith("Coverages on")]:
+            figure(title)
+        for run in doc["coverages"]:
+            sp = run["species"]
+            out.append(f"<h3>{escape(run['surface'])}: {escape(run['fugacity'])} gas, "
+                       f"{'mean-field interactions' if run['interactions'] else 'no lateral interactions'}</h3>")
+            rows = [[run["temperature_K"][i]] + [run["coverage_ML"][s][i] for s in sp] + [run["empty_sites_ML"][i]]
+                    for i in _pick(len(run["temperature_K"]))]
+            out.append(_table(["T (K)"] + [f"θ {s}" for s in sp] + ["θ empty"], rows))
+    if doc["isotherms"] or doc["maps"]:
+        out.append("<h2>Isotherms and coverage maps</h2>")
+        for title in [k for k in images if k.startswith(("Isotherms", "Coverage map"))]:
+            figure(title)
+    if doc["pathways"]:
+        out.append("<h2>Free-energy diagrams</h2>")
+        for p in doc["pathways"]:
+            out.append(f"<h3>{escape(p['name'])} ({escape(p['kind'])}, {p['temperature_K']:g} K)</h3>")
+            if p["hydrogen_electrode"]:
+                out.append(f"<p>Computational hydrogen electrode: {escape(p['hydrogen_electrode'])}.</p>")
+            figure(f"Free-energy diagram: {p['name']}")
+            out.append(_table(["state"] + [f"G at {u:.3f} V (eV)" for u in p["potentials_V_RHE"]],
+                              [[lab] + [g[i] for g in p["state_gibbs_eV"]] for i, lab in enumerate(p["labels"])]))
+            out.append(_table(["summary", "value"], [[k, v] for k, v in p["summary"].items()
+                                                     if not isinstance(v, (list, dict))]))
+    mc = doc["model_comparison"]
+    if mc:
+        out.append(f"<h2>Model comparison: {escape(mc['name'])}</h2>")
+        figure(f"Model comparison: {mc['name']}")
+        out.append(f"<p>{escape(mc['recommendation'])}</p><p>{escape(mc['rule'])}</p>")
+        tl = mc["temperature_K"]
+        out.append(_table(["model", "T (K)", "S° (J/mol/K)", "deviation (SD)"],
+                          [[m, tl[i], v["standard_entropy_J_mol_K"][i],
+                            v["deviation_from_correlation_sd"][i] if v["deviation_from_correlation_sd"] else "-"]
+                           for m, v in mc["models"].items() for i in _pick(len(tl), 5)]))
+        if mc["skipped"]:
+            out.append(_items([f"{m}: {why}" for m, why in mc["skipped"].items()]))
+    out.append("<h2>Assumptions</h2>" + _items(doc["assumptions"]))
+    out.append("<h2>Versions and files</h2>" + _table(["package", "version"], list(doc["versions"].items())))
+    out.append(_items(doc["files"]["tables"] + doc["files"]["plots"] + ["results.json"]))
+    out.append(f"<p><small>Generated {escape(doc['created_utc'])} by adsorb {escape(doc['versions']['adsorb'])}, "
+               f"{escape(doc['schema'])}.</small></p></body></html>")
+    return "\n".join(out)
+
+
+def write_html(doc, plots, path, *, case_text=""):
+    """Write the report page atomically; ``plots`` are (title, stem, files) triples from write_plots."""
+    path = Path(path)
+    images = {title: (path.parent / files[0]).read_bytes() for title, _, files in plots}
+    page = render_html({**doc, "_case_text": case_text}, images)
+    write_text_atomic(path, page)
+    return path
