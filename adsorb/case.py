@@ -429,12 +429,15 @@ def load_case(path) -> Case:
     ctx = {"gases": gases, "surfaces": surfaces, "adsorbates": names["adsorbates"], "surface_atoms": surface_atoms}
     adsorbates = {n: _read_adsorbate(n, t, ld, ctx) for n, t in sections["adsorbates"]}
     _cross_checks(root, gases, adsorbates, surfaces)
+    _try_objects(root, gases, adsorbates, surfaces)
     ctx["adsorbates"] = adsorbates
     conditions = read_conditions(root, gases)
     if conditions is not None and conditions.standard_state:
         _check_state(root.sub("conditions"), "standard_state", conditions.standard_state)
     pathways = read_pathways(root, ctx)
     outputs = read_outputs(root, ctx, conditions)
+    if conditions is not None and not any(": conditions" in p for p in root.problems):
+        _coverage_pressures(root, conditions, gases, adsorbates, outputs)
     if root.problems:
         raise CaseError(root.problems)
     files = ((str(path.resolve()), hashlib.sha256(raw).hexdigest()),) + tuple(ld.hashes.items())
@@ -485,6 +488,32 @@ def _cross_checks(root, gases, adsorbates, surfaces):
                 elif gases[other].anchor is not None:
                     root.problem(f"gases.{name}.gibbs_anchor.species.{other}", "an anchored gas refers to another anchored gas",
                                  "gases with their own energies")
+
+
+def _coverage_pressures(root, conditions, gases, adsorbates, outputs):
+    """Every gas that feeds a coverage calculation needs a partial pressure."""
+    if not (outputs.coverages or outputs.curves):
+        return
+    for name, a in adsorbates.items():
+        if a.in_coverages and a.gas in gases and a.gas not in conditions.pressures_Pa:
+            root.problem("conditions.partial_pressures_bar", f"no pressure for gas {a.gas!r} (adsorbates.{name} "
+                         "adsorbs from it)", f"a partial pressure of {a.gas}, or in_coverages = false on the adsorbate")
+
+
+def _try_objects(root, gases, adsorbates, surfaces):
+    """Build the library objects of entries without problems so far: their own checks become case problems."""
+    from adsorb.study import build_adsorbate, build_gas
+
+    for section, specs, build in (("gases", gases, build_gas),
+                                  ("adsorbates", adsorbates, lambda a: build_adsorbate(a, surfaces))):
+        for name, spec in specs.items():
+            where = f"{section}.{name}"
+            if any(f": {where}." in p or p.endswith(f": {where}") for p in root.problems):
+                continue
+            try:
+                build(spec)
+            except InputError as exc:
+                root.problem(where, str(exc).splitlines()[0], f"inputs that {'GasMolecule' if section == 'gases' else 'Adsorbate'} accepts")
 
 
 def _fmt(counts):

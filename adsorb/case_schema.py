@@ -172,7 +172,7 @@ class Reader:
         t = self.table(key, required=required)
         if t is None:
             return None
-        out = {k: t._num(k, x, positive, None, _unit_of(key)) for k, x in t.data.items()}
+        out = {k: t._num(k, x, positive, None, _unit_of(key.split(".")[-1])) for k, x in t.data.items()}
         return None if any(x is None for x in out.values()) else {k: x * scale for k, x in out.items()}
 
     # ---------------------------------------------------------------- tables
@@ -259,9 +259,13 @@ def parse_parameters(t, model=None):
 
 
 def _unit_of(key):
+    base = str(key).split(".")[0]
+    for unit in PRESSURE_UNITS:
+        if base.endswith(f"_{unit}"):
+            return f" in {unit}"
     for suffix, text in (("_K", " in K"), ("_eV", " in eV"), ("_cm", " in cm^-1"), ("_A2", " in Å^2"),
                          ("_A", " in Å"), ("_V", " in V"), ("_amu_A2", " in amu Å^2"), ("_amu", " in amu")):
-        if str(key).split(".")[0].endswith(suffix):
+        if base.endswith(suffix):
             return text
     return ""
 
@@ -419,7 +423,8 @@ def _species_map(t, key, ctx, surface):
             t.problem(f"{key}.{name}", f"unknown species {name!r}{t.suggest(name, known)}",
                       "a gas, an adsorbate or '*' (the empty site)")
             ok = False
-        elif name in ctx["adsorbates"] and ctx["adsorbates"][name].surface != surface:
+        elif (name in ctx["adsorbates"] and ctx["adsorbates"][name].surface != surface
+              and ctx["adsorbates"][name].surface in ctx["surfaces"]):
             t.problem(f"{key}.{name}", f"adsorbate {name!r} is on surface {ctx['adsorbates'][name].surface!r}",
                       f"adsorbates on the pathway's surface {surface!r}")
             ok = False
@@ -521,7 +526,7 @@ def read_pathways(root, ctx):
                            "kind = 'electrochemical' on the pathway, or no pairs")
             if react is None or prod is None:
                 continue
-            checked &= _check_balance(st, react, prod, pairs or 0.0, ctx)
+            checked &= _check_balance(st, react, prod, (pairs or 0) if electro else 0, ctx)
             steps.append(StepSpec(tuple(react.items()), tuple(prod.items()), pairs or 0.0, st.string("label") or ""))
         start = t.number_map("start", positive=True) if t.has("start") else None
         if start is not None:

@@ -1,0 +1,174 @@
+"""Case files: validation before computing, all problems collected, frozen typed result."""
+
+import dataclasses
+import hashlib
+import re
+import shutil
+from pathlib import Path
+
+import pytest
+
+from adsorb.case import CaseError, load_case
+from adsorb.cli import main
+from adsorb.errors import InputError
+
+HERE = Path(__file__).resolve().parent
+BAD = HERE / "bad_cases"
+BASE = BAD / "base_valid.toml"
+CASES = HERE.parent / "cases"
+BAD_FILES = sorted(BAD.glob("bad_*.toml"))
+
+
+def _expected_key(path):
+    return re.search(r"^# expect: (.+)$", path.read_text(), re.M).group(1).strip()
+
+
+def _write(tmp_path, text, name="case.toml"):
+    path = tmp_path / name
+    path.write_text(text)
+    return path
+
+
+def test_base_case_is_valid_and_frozen():
+    """The base of the bad cases loads; the result is frozen and read-only."""
+    case = load_case(BASE)
+    assert case.title.startswith("minimal CO case")
+    assert case.conditions.temperatures_K == (300.0, 400.0)
+    assert case.conditions.pressures_Pa["CO"] == pytest.approx(1e5, rel=1e-12)   # 1 bar = 1e5 Pa (common practice)
+    with pytest.raises(dataclasses.FrozenInstanceError):
+        case.title = "changed"
+    with pytest.raises(TypeError):
+        case.gases["X"] = None
+    assert isinstance(case.adsorbates["CO*"].frequencies_cm, tuple)
+
+
+def test_at_least_twenty_distinct_bad_cases():
+    """Enough broken files, each with a different expected key or content."""
+    assert len(BAD_FILES) >= 20
+    assert len({p.read_text() for p in BAD_FILES}) == len(BAD_FILES)
+
+
+@pytest.mark.parametrize("path", BAD_FILES, ids=lambda p: p.stem)
+def test_each_bad_case_gives_one_problem_naming_file_and_key(path):
+    """Exactly one problem, a single line naming the file and the key path."""
+    with pytest.raises(CaseError) as info:
+        load_case(path)
+    problems = info.value.problems
+    assert len(problems) == 1, problems
+    line = problems[0]
+    assert "\n" not in line
+    assert str(path) in line
+    assert _expected_key(path) in line
+    assert "expected" in line
+    assert isinstance(info.value, InputError)
+
+
+def test_all_problems_are_collected(tmp_path):
+    """Three independent mistakes give three lines, found in one pass."""
+    text = BASE.read_text().replace('description = "CO', 'descripton = "CO')
+    text = text.replace('model = "harmonic"', 'model = "harmonc"').replace("site_area_A2 = 7.0", "site_area_A2 = -1")
+    with pytest.raises(CaseError) as info:
+        load_case(_write(tmp_path, text))
+    joined = "\n".join(info.value.problems)
+    assert len(info.value.problems) == 3
+    assert "did you mean 'description'" in joined
+    assert "did you mean 'harmonic'" in joined
+    assert "surfaces.S.site_area_A2" in joined
+
+
+def test_pressure_units_and_mole_fractions(tmp_path):
+    """Units in key names convert to Pa; total pressure x mole fraction gives partial pressures."""
+    text = BASE.read_text().replace("partial_pressures_bar = { CO = 1.0 }", "partial_pressures_kPa = { CO = 250.0 }")
+    case = load_case(_write(tmp_path, text))
+    assert case.conditions.pressures_Pa["CO"] == pytest.approx(2.5e5, rel=1e-12)   # 1 kPa = 1e3 Pa
+    text = BASE.read_text().replace("partial_pressures_bar = { CO = 1.0 }",
+                                    "total_pressure_atm = 2.0\nmole_fractions = { CO = 1.0 }")
+    case = load_case(_write(tmp_path, text))
+    assert case.conditions.pressures_Pa["CO"] == pytest.approx(2 * 101325.0, rel=1e-12)   # 1 atm = 101325 Pa
+
+
+def test_temperature_range_by_step_and_by_count(tmp_path):
+    """A range gives the same grid by step or by count, ends included."""
+    a = BASE.read_text().replace("temperatures_K = [300.0, 400.0]", "temperature_range_K = { start = 400, stop = 800, step = 100 }")
+    b = BASE.read_text().replace("temperatures_K = [300.0, 400.0]", "temperature_range_K = { start = 400, stop = 800, count = 5 }")
+    ta = load_case(_write(tmp_path, a, "a.toml")).conditions.temperatures_K
+    tb = load_case(_write(tmp_path, b, "b.toml")).conditions.temperatures_K
+    assert ta == pytest.approx((400, 500, 600, 700, 800)) and tb == pytest.approx(ta)
+
+
+def test_asymmetric_interactions_refused(tmp_path):
+    """eps_ij must equal eps_ji when both are given (mean-field energy exists only then)."""
+    text = BASE.read_text().replace('model = "harmonic"', 'model = "harmonic"\ninteractions_eV = { "CO*" = 0.1, "O*" = 0.2 }')
+    text += ('\n[adsorbates."O*"]\nsurface = "S"\nformula = "O"\nenergy_eV = -105.0\nfrequencies_cm = [500.0, 400.0, 390.0]\n'
+             'interactions_eV = { "CO*" = 0.3 }\n')
+    with pytest.raises(CaseError) as info:
+        load_case(_write(tmp_path, text))
+    assert any("symmetric" in p and "interactions_eV" in p for p in info.value.problems)
+
+
+def test_files_resolved_relative_to_case_and_hashed(tmp_path):
+    """Structure files are found next to the case wherever it is run from; every input is hashed."""
+    shutil.copytree(CASES, tmp_path / "cases")
+    case = load_case(tmp_path / "cases" / "ammonia_mx0001.toml")
+    paths = [Path(p) for p, _ in case.input_files]
+    assert paths[0].name == "ammonia_mx0001.toml"
+    assert any(p.name == "nh3_mx_frequencies.txt" for p in paths)
+    for p, digest in case.input_files:
+        assert digest == hashlib.sha256(Path(p).read_bytes()).hexdigest()
+
+
+def test_compositions_from_structures_and_balance():
+    """NH3* composition is structure minus slab; the hydrogenation steps are checked for balance."""
+    case = load_case(CASES / "ammonia_mx0001.toml")
+    assert dict(case.adsorbates["NH3*"].composition) == {"N": 1, "H": 3}
+    assert dict(case.gases["N2"].composition) == {"N": 2}
+    path = case.pathways["hydrogenation"]
+    assert path.balance_checked
+    # the first state needs 3/2 H2 for the three hydrogenation steps
+    assert dict(path.states[0]) == {"N*": 1.0, "H2": 1.5}
+
+
+def test_unbalanced_atoms_detected_from_structures(tmp_path):
+    """With structures known, a step that loses an H atom is refused."""
+    shutil.copytree(CASES, tmp_path / "cases")
+    path = tmp_path / "cases" / "ammonia_mx0001.toml"
+    path.write_text(path.read_text().replace('{ "NH*" = 1, H2 = 0.5 }, products = { "NH2*" = 1 }',
+                                             '{ "NH*" = 1, H2 = 1.0 }, products = { "NH2*" = 1 }'))
+    with pytest.raises(CaseError) as info:
+        load_case(path)
+    assert len(info.value.problems) == 1
+    assert "pathways.hydrogenation.steps.1.products: unbalanced step" in info.value.problems[0]
+
+
+def test_electrochemical_balance_counts_proton_electron_pairs():
+    """OOH* + (H+ + e-) -> O* + H2O balances only with the pair counted as H."""
+    case = load_case(CASES / "orr_fictitious_sites.toml")
+    path = case.pathways["orr"]
+    assert path.balance_checked and [s.proton_electron_pairs for s in path.steps] == [1, 1, 1, 1]
+    assert dict(path.states[0])["(H+ + e-)"] == 4
+
+
+def test_check_prints_summary(capsys):
+    """adsorb check: exit 0 and a summary of what would be computed."""
+    assert main(["check", str(CASES / "ammonia_mx0001.toml")]) == 0
+    out = capsys.readouterr().out
+    assert "case is valid" in out
+    assert "coverages vs T on Mx(0001): without and with lateral interactions" in out
+    assert "pathway hydrogenation (thermal, 4 steps" in out
+    assert "model comparison: NH3*" in out
+
+
+def test_check_bad_case_exit_two_one_line(capsys):
+    """adsorb check on a broken file: exit 2, one line on stderr, nothing on stdout."""
+    path = BAD / "bad_unknown_model.toml"
+    assert main(["check", str(path)]) == 2
+    captured = capsys.readouterr()
+    lines = captured.err.strip().splitlines()
+    assert len(lines) == 1 and "adsorbates.CO*.model" in lines[0] and str(path) in lines[0]
+    assert captured.out == ""
+
+
+def test_missing_case_file_is_one_line(tmp_path):
+    """A case path that does not exist is a CaseError naming it."""
+    with pytest.raises(CaseError, match="case file not found"):
+        load_case(tmp_path / "nope.toml")
