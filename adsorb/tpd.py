@@ -690,5 +690,12 @@ def plot_tpd(results, path, *, labels=None, title=None, mark_peaks=True):
     ax.set_title(title or "Simulated TPD")
     ax.legend(fontsize=8)
     ax.set_ylim(bottom=0)
+    # show where something happens: rate above 1e-3 of the largest peak
+    top = max(float(np.max(r.rate_per_K)) for r in runs)
+    lo = min(float(r.temperature[np.argmax(r.rate_per_K > 1e-3 * top)]) for r in runs)
+    hi = max(float(r.temperature[len(r.rate_per_K) - 1 - np.argmax(r.rate_per_K[::-1] > 1e-3 * top)])
+             for r in runs)
+    pad = 0.08 * (hi - lo) + 1.0
+    ax.set_xlim(lo - pad, hi + pad)
     _save_figure(fig, path)
     return fig
