@@ -213,7 +213,7 @@ def test_basis_grows_with_temperature_and_mass():
 
 
 def test_levels_serve_the_requested_range_only():
-    # levels converged for 300 K are cut above spread + 36 kT(300 K); at 300 K they
+    # levels converged for 300 K are cut above spread + 32 kT(300 K); at 300 K they
     # reproduce a solve made for a higher range
     cos_ev = P.cosine_terms(0.1)
     a = P.lattice_translator(300.0, 28.0, 2.77, cos_ev)
