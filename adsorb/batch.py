@@ -194,24 +194,26 @@ def screen_database(path, selection=None, temperature=298.15, *, pressure_Pa=Non
 
 
 def write_batch_csv(result: BatchResult, path) -> None:
-    """One line per adsorbate row: id, labels, dE, then dG (eV) and K (1/Pa) [and theta] at every temperature."""
+    """One line per adsorbate row: id, labels, dE (eV), dG (eV) at every temperature [and theta (ML)].
+
+    K is not repeated in the file: K = exp(-dG/kT)/p° in Pa^-1 with p° = 1e5 Pa.
+    """
     from adsorb.fileout import write_text_atomic
 
     temps = [f"{x:g}" for x in result.temperature_K]
     header = ["row_id", "adsorbate", "surface", "gas", "dissociative", "delta_energy_eV"]
-    header += [f"delta_gibbs_eV_{x}K" for x in temps] + [f"K_per_Pa_{x}K" for x in temps]
-    blocks = [result.delta_gibbs_eV, result.equilibrium_constant_per_Pa]
+    header += [f"delta_gibbs_eV_{x}K" for x in temps]
+    blocks = [result.delta_energy_eV[:, None], result.delta_gibbs_eV]
+    fmt = ",".join(["%.6f"] * (1 + len(temps)))
     if result.coverage is not None:
         header += [f"theta_{x}K_{result.pressure_Pa:g}Pa" for x in temps]
         blocks.append(result.coverage)
-    numbers = np.hstack([result.delta_energy_eV[:, None]] + blocks)
+        fmt += "," + ",".join(["%.5e"] * len(temps))
+    numbers = np.hstack(blocks).tolist()
     lines = [",".join(header)]
-    fmt = ",".join(["%.6f"] * (1 + result.delta_gibbs_eV.shape[1]) + ["%.6e"] * (numbers.shape[1] - 1
-                                                                               - result.delta_gibbs_eV.shape[1]))
-    for i in range(numbers.shape[0]):
-        text = [str(result.row_id[i]), _csv(result.label[i]), _csv(result.surface[i]), _csv(result.gas[i]),
-                "true" if result.dissociative[i] else "false"]
-        lines.append(",".join(text) + "," + fmt % tuple(numbers[i]))
+    for i, row in enumerate(numbers):
+        lines.append(f"{result.row_id[i]},{_csv(result.label[i])},{_csv(result.surface[i])},{_csv(result.gas[i])},"
+                     f"{'true' if result.dissociative[i] else 'false'}," + fmt % tuple(row))
     write_text_atomic(path, "\n".join(lines) + "\n")
 
 
