@@ -22,9 +22,10 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
 
-from adsorb.case_schema import (ADSORBATE_KEYS, CASE_KEYS, GAS_KEYS, SURFACE_KEYS, Conditions,
-                                CurveSpec, ComparisonSpec, OutputSpec, PathwaySpec, Reader, StepSpec, formula_counts, parse_parameters,
-                                read_conditions, read_outputs, read_pathways)
+from adsorb.case_links import PathwaySpec, StepSpec, coverage_pressures, cross_checks, read_pathways, try_objects
+from adsorb.case_schema import (ADSORBATE_KEYS, CASE_KEYS, GAS_KEYS, SURFACE_KEYS, ComparisonSpec, Conditions,
+                                CurveSpec, OutputSpec, Reader, formula_counts, parse_parameters, read_conditions,
+                                read_outputs)
 from adsorb.errors import InputError
 
 __all__ = ["CaseError", "Case", "GasSpec", "SurfaceSpec", "AdsorbateSpec", "Conditions", "PathwaySpec", "StepSpec",
@@ -428,8 +429,8 @@ def load_case(path) -> Case:
     surface_atoms = {n: dict(s.composition) for n, s in surfaces.items() if s.composition is not None}
     ctx = {"gases": gases, "surfaces": surfaces, "adsorbates": names["adsorbates"], "surface_atoms": surface_atoms}
     adsorbates = {n: _read_adsorbate(n, t, ld, ctx) for n, t in sections["adsorbates"]}
-    _cross_checks(root, gases, adsorbates, surfaces)
-    _try_objects(root, gases, adsorbates, surfaces)
+    cross_checks(root, gases, adsorbates, surfaces)
+    try_objects(root, gases, adsorbates, surfaces)
     ctx["adsorbates"] = adsorbates
     conditions = read_conditions(root, gases)
     if conditions is not None and conditions.standard_state:
@@ -437,7 +438,7 @@ def load_case(path) -> Case:
     pathways = read_pathways(root, ctx)
     outputs = read_outputs(root, ctx, conditions)
     if conditions is not None and not any(": conditions" in p for p in root.problems):
-        _coverage_pressures(root, conditions, gases, adsorbates, outputs)
+        coverage_pressures(root, conditions, gases, adsorbates, outputs)
     if root.problems:
         raise CaseError(root.problems)
     files = ((str(path.resolve()), hashlib.sha256(raw).hexdigest()),) + tuple(ld.hashes.items())
@@ -445,77 +446,3 @@ def load_case(path) -> Case:
                 gases=MappingProxyType(gases), surfaces=MappingProxyType(surfaces),
                 adsorbates=MappingProxyType(adsorbates), pathways=MappingProxyType(pathways),
                 outputs=outputs, input_files=files)
-
-
-def _cross_checks(root, gases, adsorbates, surfaces):
-    """Checks between sections: interaction symmetry, anchors, precursors and mobile-model site areas."""
-    for name, a in adsorbates.items():
-        where = f"adsorbates.{name}"
-        for other, eps in a.interactions_eV:
-            b = adsorbates.get(other)
-            back = dict(b.interactions_eV).get(name) if b else None
-            if b is not None and back is not None and not math.isclose(back, eps, rel_tol=1e-9, abs_tol=1e-12):
-                root.problem(f"{where}.interactions_eV.{other}", f"{eps} eV but adsorbates.{other}.interactions_eV.{name} "
-                             f"is {back} eV", "a symmetric interaction (the same value both ways, or give it once)")
-            if b is not None and b.surface != a.surface:
-                root.problem(f"{where}.interactions_eV.{other}", f"{other!r} is on surface {b.surface!r}, not {a.surface!r}",
-                             "interactions only between adsorbates on the same surface")
-        if a.in_coverages and a.gas is None:
-            root.problem(f"{where}.in_coverages", "true but no gas precursor", "gas = NAME of the gas it adsorbs from")
-        if a.gas in gases and gases[a.gas].anchor is not None and a.in_coverages:
-            root.problem(f"{where}.gas", f"gas {a.gas!r} has a gibbs_anchor (pathway use only)",
-                         "a gas with its own electronic energy for coverages")
-        if a.gas in gases and a.composition is not None and gases[a.gas].composition is not None:
-            g, s = dict(gases[a.gas].composition), dict(a.composition)
-            n = 2 if a.dissociative else 1
-            if {k: n * v for k, v in s.items()} != g:
-                root.problem(f"{where}.gas", f"{'2 x ' if n == 2 else ''}{_fmt(s)} is not the composition of {a.gas} ({_fmt(g)})",
-                             "the adsorbed fragment(s) of the gas precursor (check dissociative)")
-        surf = surfaces.get(a.surface)
-        p = dict(a.parameters)
-        from adsorb.adsorbate import MOBILE_MODELS
-
-        if a.model in MOBILE_MODELS and "site_spacing" not in p and "site_area" not in p:
-            if surf is None or surf.site_area_A2 is None:
-                root.problem(f"{where}.site_area_A2", f"model {a.model!r} needs the area per site",
-                             f"site_area_A2 or site_spacing_A here, or surfaces.{a.surface}.site_area_A2")
-    for name, g in gases.items():
-        if g.anchor is not None:
-            for other, _ in g.anchor.species:
-                if other not in gases or other == name:
-                    root.problem(f"gases.{name}.gibbs_anchor.species.{other}", f"unknown gas {other!r}",
-                                 "other gas names of this case")
-                elif gases[other].anchor is not None:
-                    root.problem(f"gases.{name}.gibbs_anchor.species.{other}", "an anchored gas refers to another anchored gas",
-                                 "gases with their own energies")
-
-
-def _coverage_pressures(root, conditions, gases, adsorbates, outputs):
-    """Every gas that feeds a coverage calculation needs a partial pressure."""
-    if not (outputs.coverages or outputs.curves):
-        return
-    for name, a in adsorbates.items():
-        if a.in_coverages and a.gas in gases and a.gas not in conditions.pressures_Pa:
-            root.problem("conditions.partial_pressures_bar", f"no pressure for gas {a.gas!r} (adsorbates.{name} "
-                         "adsorbs from it)", f"a partial pressure of {a.gas}, or in_coverages = false on the adsorbate")
-
-
-def _try_objects(root, gases, adsorbates, surfaces):
-    """Build the library objects of entries without problems so far: their own checks become case problems."""
-    from adsorb.study import build_adsorbate, build_gas
-
-    for section, specs, build in (("gases", gases, build_gas),
-                                  ("adsorbates", adsorbates, lambda a: build_adsorbate(a, surfaces))):
-        for name, spec in specs.items():
-            where = f"{section}.{name}"
-            if any(f": {where}." in p or p.endswith(f": {where}") for p in root.problems):
-                continue
-            try:
-                build(spec)
-            except InputError as exc:
-                root.problem(where, str(exc).splitlines()[0], f"inputs that {'GasMolecule' if section == 'gases' else 'Adsorbate'} accepts")
-
-
-def _fmt(counts):
-    return "".join(f"{k}{v if v != 1 else ''}" for k, v in sorted(counts.items())) or "nothing"
-
