@@ -34,6 +34,11 @@ Exponentially scaled Bessel functions (``scipy.special.i0e``/``i1e``) and an
 asymptotic series of I1/I0 for large arguments keep every value finite with no
 warnings from 1 K to 5000 K and for barriers from 0 to many eV.
 
+Known limitation (measured, see docs/methods-adsorbates.md): for
+r = W/(h nu) well below 1 and W < kT < h nu the quantum correction factor makes
+U negative and Cv < 0 (the entropy falls with T), e.g. a rotor of 0.5 amu Å^2
+with 5 minima and W = 0.01 eV at 40-100 K. The accuracy rule flags that regime.
+
 Barrier zero is allowed: it gives the free translator (b sqrt(2 pi m kT)/h per
 direction and site) and the classical free rotor exactly. Where the closed
 forms are accurate (compared with the exact solver of
@@ -386,7 +391,8 @@ def _reliable_dimensionless(kt, hnu, r):
     True where |q_closed/q_exact - 1| <= 1 % and |S_closed - S_exact| <= 0.02 k
     for the cosine potential (measured against :mod:`adsorb.partition.periodic`
     on a grid r = 0.001-30, T* = 0.003-300, translator and rotors with 1, 2,
-    3 and 6 minima; see docs/methods-adsorbates.md):
+    3 and 6 minima: worst in-rule deviation 0.80 % in q and 0.017 k in S; see
+    docs/methods-adsorbates.md):
 
         (r >= 3 and T* >= 2/r^2)  or  (r >= 2 and T* >= 0.3)  or  T* >= min(6/r, 75)
 
@@ -450,9 +456,10 @@ def rotor_closed_form_reliable(temperature, inertia_amu_A2, barrier_eV, n_minima
     minima), plus T >= hbar^2/(2 I k), the rotational temperature: below it
     even the free rotor is far from classical (the classical free-rotor q is
     exact up to 2 exp(-pi^2 T/Theta) above it, by Poisson summation).
-    Typical outcome: rotors with I >= 3 amu Å^2 and up to 3 minima pass above
-    about 20-50 K unless the barrier is below about 0.02 eV; light rotors with
-    6 minima fail at low T.
+    Typical outcome: with up to 3 minima, rotors of I >= 5 amu Å^2 pass from
+    10-30 K for barriers of 0.02-0.3 eV; at I = 3 amu Å^2 and 3 minima the
+    closed form is off by 1-3 % in q at low T unless W >= 0.1 eV; light rotors
+    with 6 minima fail up to several hundred K.
 
     Parameters
     ----------
