@@ -17,12 +17,15 @@ Equations and sources: docs/methods-gas.md.
 from __future__ import annotations
 
 import warnings
+from collections.abc import Mapping
+from dataclasses import dataclass
 
 import numpy as np
 
 from adsorb import constants as C
 from adsorb import geometry
-from adsorb.errors import InputError
+from adsorb.errors import InputError, ModelWarning
+from adsorb.partition import hindered, periodic
 from adsorb.partition.contribution import Contribution
 from adsorb.partition.electronic import electronic
 from adsorb.partition.rotation import linear_rotor, linear_rotor_levels, nonlinear_rotor
@@ -30,7 +33,8 @@ from adsorb.partition.translation import translation_3d
 from adsorb.partition.vibration import harmonic
 from adsorb.thermo import ThermoTable, assemble
 
-__all__ = ["GasMolecule", "ROTORS", "IMAGINARY_POLICIES"]
+__all__ = ["GasMolecule", "Torsion", "torsion_moments", "ROTORS", "IMAGINARY_POLICIES", "TORSION_SOLVERS",
+           "REDUCED_MOMENTS"]
 
 ROTORS = ("auto", "classical", "levels")
 IMAGINARY_POLICIES = ("raise", "drop", "invert")
@@ -95,6 +99,382 @@ def _signed_wavenumbers(frequencies):
 
 def _fmt(values):
     return ", ".join(f"{v:g}" for v in values)
+
+
+# ---------------------------------------------------------------------------
+# hindered internal rotation (torsions)
+# ---------------------------------------------------------------------------
+
+TORSION_SOLVERS = ("exact", "closed-form")
+REDUCED_MOMENTS = ("two-top", "coupled")
+
+#: a mode chosen by its wavenumber must lie this close to the value given (cm^-1)
+MODE_MATCH_CM = 1.0
+#: bond criterion of the torsion geometry: d <= factor * (r_cov,i + r_cov,j)
+BOND_FACTOR = 1.2
+#: a top (or the rest) with a smaller moment about the axis lies on the axis (amu Å^2)
+_MIN_MOMENT = 1e-6
+
+
+def _is_integer(value):
+    return isinstance(value, (int, np.integer)) and not isinstance(value, (bool, np.bool_))
+
+
+def _index_tuple(label, value, *, length=None):
+    """A tuple of non-negative ints, else InputError naming ``label``."""
+    try:
+        items = tuple(value)
+    except TypeError:
+        raise InputError(f"{label}: expected a sequence of atom indices, got {value!r}") from None
+    if not items or not all(_is_integer(i) and int(i) >= 0 for i in items):
+        raise InputError(f"{label}: expected non-negative integer atom indices, got {value!r}")
+    if length is not None and len(items) != length:
+        raise InputError(f"{label}: expected {length} atom indices, got {len(items)} ({value!r})")
+    if len(set(int(i) for i in items)) != len(items):
+        raise InputError(f"{label}: atom indices must be distinct, got {value!r}")
+    return tuple(int(i) for i in items)
+
+
+def _barrier_terms(label, value):
+    """V_n as a tuple (V_1, ..., V_N) from a mapping {n: V_n} or a sequence; InputError otherwise."""
+    if isinstance(value, Mapping):
+        if not value:
+            raise InputError(f"{label}: expected at least one barrier term {{n: V_n}}, got {{}}")
+        orders = list(value)
+        if not all(_is_integer(n) and int(n) >= 1 for n in orders):
+            raise InputError(f"{label}: the keys are the orders n of V_n, positive integers; got {orders!r}")
+        terms = np.zeros(max(int(n) for n in orders))
+        for n, v in value.items():
+            terms[int(n) - 1] = _number(f"{label}[{n}]", v, positive=False)
+        return tuple(float(v) for v in terms)
+    if isinstance(value, (str, bytes)):
+        raise InputError(f"{label}: expected {{n: V_n}} or a sequence (V_1, V_2, ...), got {value!r}")
+    try:
+        terms = np.atleast_1d(np.asarray(value, dtype=float))
+    except (TypeError, ValueError):
+        raise InputError(f"{label}: expected {{n: V_n}} or a sequence (V_1, V_2, ...) of numbers, "
+                         f"got {value!r}") from None
+    if terms.ndim != 1 or terms.size == 0 or not np.all(np.isfinite(terms)):
+        raise InputError(f"{label}: expected a non-empty sequence of finite numbers (V_1, V_2, ...), got {value!r}")
+    return tuple(float(v) for v in terms)
+
+
+@dataclass(frozen=True, kw_only=True)
+class Torsion:
+    """A torsion of a gas molecule treated as a one-dimensional hindered rotor.
+
+    The torsional potential is the cosine series of Pitzer and Gwinn
+    (J. Chem. Phys. 10, 428 (1942), from memory)::
+
+        V(phi) = sum_n (V_n / 2) [1 - cos(n phi)],   V(0) = 0,
+
+    so a single term V_n is the barrier height with n equivalent minima per
+    turn (ethane: ``barriers_cm={3: 1024.0}``, Gurvich via NIST CCCBDB). The
+    rotor replaces one harmonic mode of :class:`GasMolecule` (see ``mode``).
+    All fields are keyword-only; see docs/methods-gas.md §7.
+
+    Parameters
+    ----------
+    barriers_cm : mapping {n: V_n} or sequence (V_1, V_2, ...), optional
+        Barrier terms V_n in cm^-1 (any sign; the energy zero is then the
+        lowest point of V, found numerically). Stored as the tuple
+        (V_1, ..., V_N).
+    barriers_eV : mapping or sequence, optional
+        The same in eV. Exactly one of ``barriers_cm`` / ``barriers_eV``.
+        All terms zero is the free internal rotor.
+    symmetry_number : int, optional
+        Internal symmetry number σ_int: indistinguishable orientations of the
+        top per turn (3 for CH3 or CF3, 1 for OH). Divides q. The potential
+        must have σ_int-fold symmetry (terms only at multiples of σ_int), and
+        a given top must look the same after a turn of 2π/σ_int about the
+        axis. Default 1. The external σ of the molecule is not changed.
+    top : sequence of int, optional
+        Atom indices of the rotating group, *including* its atom on the axis
+        (CH3 of ethane: the C and its three H). Needed unless
+        ``inertia_amu_A2`` is given.
+    axis : (int, int), optional
+        The two atoms defining the rotation axis, one in the top and one in
+        the rest. Default: the single bond joining the top to the rest
+        (bonds: d <= 1.2 (r_i + r_j), covalent radii of ``ase.data``).
+    inertia_amu_A2 : float, optional
+        Reduced moment of inertia in amu Å^2, used instead of the geometry.
+    reduced_moment : {'two-top', 'coupled'}, optional
+        Formula for the reduced moment from the geometry. 'two-top'
+        (default): I_red = I_top I_rest / (I_top + I_rest), the moments of
+        the two groups about the axis. 'coupled': the internal-rotation
+        moment with the overall rotation and translation eliminated,
+        I_red = I_top - |P|^2/M - L·I^-1·L (Pitzer 1946 type; see
+        :func:`torsion_moments`).
+    mode : int, float or 'lowest', optional
+        The harmonic mode replaced: an int is an index into the
+        ``frequencies`` list as given to :class:`GasMolecule` (0-based); a
+        float is a wavenumber in cm^-1 (the nearest mode, which must lie
+        within ``MODE_MATCH_CM`` = 1 cm^-1); 'lowest' (default) is the lowest
+        real mode not replaced by another torsion.
+    solver : {'exact', 'closed-form'}, optional
+        'exact' (default): levels of the rotor on the ring,
+        :func:`adsorb.partition.periodic.ring_rotor`. 'closed-form': the
+        Sprowl–Campbell–Árnadóttir hindered rotor
+        (:func:`adsorb.partition.hindered.hindered_rotor`, J. Phys. Chem. C
+        2016, 120, 9719), for a single cosine term V_n >= 0 only; a
+        :class:`~adsorb.errors.ModelWarning` is raised where it is outside its
+        measured accuracy.
+
+    Raises
+    ------
+    InputError
+        A missing or doubly given barrier, bad terms, a symmetry number that
+        the potential does not have, neither ``top`` nor ``inertia_amu_A2``,
+        or a bad option value. The message names the field.
+    """
+
+    barriers_cm: object = None
+    barriers_eV: object = None
+    symmetry_number: int = 1
+    top: tuple | None = None
+    axis: tuple | None = None
+    inertia_amu_A2: float | None = None
+    reduced_moment: str = "two-top"
+    mode: object = "lowest"
+    solver: str = "exact"
+
+    def __post_init__(self):
+        put = lambda name, value: object.__setattr__(self, name, value)  # noqa: E731
+        if (self.barriers_cm is None) == (self.barriers_eV is None):
+            got = "neither" if self.barriers_cm is None else "both"
+            raise InputError(f"Torsion barriers_cm / barriers_eV: expected exactly one (e.g. barriers_cm={{3: 1024.0}}), "
+                             f"got {got}")
+        if self.barriers_cm is not None:
+            put("barriers_cm", _barrier_terms("Torsion barriers_cm", self.barriers_cm))
+        else:
+            put("barriers_eV", _barrier_terms("Torsion barriers_eV", self.barriers_eV))
+        put("symmetry_number", _positive_int("Torsion symmetry_number", self.symmetry_number))
+        if self.top is not None:
+            put("top", _index_tuple("Torsion top", self.top))
+        if self.axis is not None:
+            put("axis", _index_tuple("Torsion axis", self.axis, length=2))
+        if self.inertia_amu_A2 is not None:
+            put("inertia_amu_A2", _number("Torsion inertia_amu_A2", self.inertia_amu_A2))
+        if self.top is None and self.inertia_amu_A2 is None:
+            raise InputError("Torsion top / inertia_amu_A2: expected the atom indices of the rotating group "
+                             "or a reduced moment in amu Å^2, got neither")
+        if self.reduced_moment not in REDUCED_MOMENTS:
+            raise InputError(f"Torsion reduced_moment: expected one of {REDUCED_MOMENTS}, got {self.reduced_moment!r}")
+        if self.solver not in TORSION_SOLVERS:
+            raise InputError(f"Torsion solver: expected one of {TORSION_SOLVERS}, got {self.solver!r}")
+        mode = self.mode
+        if isinstance(mode, str):
+            if mode != "lowest":
+                raise InputError(f"Torsion mode: expected an index (int), a wavenumber in cm^-1 (float) or "
+                                 f"'lowest', got {mode!r}")
+        elif _is_integer(mode):
+            if int(mode) < 0:
+                raise InputError(f"Torsion mode: an index into the frequency list must be >= 0, got {mode!r}")
+            put("mode", int(mode))
+        elif isinstance(mode, (float, np.floating)) and np.isfinite(mode):
+            put("mode", float(mode))
+        else:
+            raise InputError(f"Torsion mode: expected an index (int), a wavenumber in cm^-1 (float) or 'lowest', "
+                             f"got {mode!r}")
+        terms = np.asarray(self.terms_eV)
+        orders = np.flatnonzero(terms) + 1
+        sigma = self.symmetry_number
+        if np.any(orders % sigma):
+            raise InputError(f"Torsion symmetry_number: sigma_int = {sigma} needs a potential with {sigma}-fold "
+                             f"symmetry (terms V_n only at multiples of {sigma}), got terms at n = "
+                             f"{', '.join(str(int(n)) for n in orders)}")
+        if self.solver == "closed-form" and (orders.size > 1 or np.any(terms < 0)):
+            raise InputError(f"Torsion solver='closed-form' takes a single cosine term V_n >= 0, got "
+                             f"{self._terms_text()}; use solver='exact'")
+
+    @property
+    def terms_eV(self) -> tuple:
+        """(V_1, ..., V_N) in eV."""
+        if self.barriers_eV is not None:
+            return self.barriers_eV
+        return tuple(v * C.invcm_eV for v in self.barriers_cm)
+
+    def _terms_text(self):
+        unit, terms = ("cm^-1", self.barriers_cm) if self.barriers_cm is not None else ("eV", self.barriers_eV)
+        parts = [f"V{n} = {v:g}" for n, v in enumerate(terms, start=1) if v != 0]
+        return (", ".join(parts) or "all V_n = 0") + f" {unit}"
+
+
+def _bond_matrix(atoms, positions):
+    """Boolean bond matrix: d_ij <= BOND_FACTOR (r_i + r_j) with ASE's covalent radii (Cordero et al. 2008)."""
+    from ase.data import covalent_radii      # the only ASE table used here; ASE is already the input type
+
+    radii = np.asarray(covalent_radii)[np.asarray(atoms.numbers)]
+    d = np.linalg.norm(positions[:, None, :] - positions[None, :, :], axis=-1)
+    bonded = d <= BOND_FACTOR * (radii[:, None] + radii[None, :])
+    np.fill_diagonal(bonded, False)
+    return bonded
+
+
+def _connected(adjacency):
+    seen, stack = {0}, [0]
+    while stack:
+        i = stack.pop()
+        for j in np.flatnonzero(adjacency[i]):
+            if int(j) not in seen:
+                seen.add(int(j))
+                stack.append(int(j))
+    return len(seen) == adjacency.shape[0]
+
+
+def _rotate(vectors, axis, angle):
+    """Rodrigues rotation of row vectors about the unit ``axis``."""
+    k = axis
+    cos, sin = np.cos(angle), np.sin(angle)
+    return vectors * cos + np.cross(k, vectors) * sin + np.outer(vectors @ k, k) * (1.0 - cos)
+
+
+def torsion_moments(atoms, top, axis=None, *, symmetry_number=1, symmetry_tolerance=0.05, label="torsion"):
+    """Moments of inertia of a rotating group about its bond axis.
+
+    The axis is the line through the top's atom ``a`` and the rest's atom
+    ``b`` joined by a bond (or given). With r_perp,i the distance of atom i
+    from that line (common practice):
+
+    * I_top  = sum_{i in top} m_i r_perp,i^2,  I_rest = sum_{i not in top} m_i r_perp,i^2;
+    * two-top reduced moment: I_red = I_top I_rest / (I_top + I_rest), the
+      relative rotation of two rigid groups about their common axis with zero
+      total angular momentum about it (Pitzer & Gwinn, J. Chem. Phys. 10,
+      428 (1942); Pitzer, J. Chem. Phys. 14, 239 (1946), from memory).
+    * coupled reduced moment: the top turning at unit rate moves its atoms
+      with w_i = e x (r_i - r_a); with P = sum m_i w_i, L = sum m_i
+      (r_i - R_cm) x w_i and the inertia tensor I of the whole molecule about
+      its centre of mass, I_coupled = I_top - |P|^2/M - L·I^-1·L, the Schur
+      complement of the overall translation and rotation in the classical
+      kinetic-energy matrix (the moment that multiplies det I in the classical
+      phase integral; Pitzer 1946's reduced moment for a rigid top, from
+      memory). It equals the two-top value when e is a principal axis of the
+      molecule through its centre of mass and of the top, and the top's
+      centre of mass lies on e (ethane).
+
+    Parameters
+    ----------
+    atoms : ase.Atoms
+        The molecule (a molecule split by periodic wrapping is joined first).
+    top : sequence of int
+        Atoms of the rotating group, including its atom on the axis.
+    axis : (int, int), optional
+        One atom in the top, one not; default the single bond joining them
+        (d <= 1.2 (r_i + r_j), covalent radii of ``ase.data``).
+    symmetry_number : int, optional
+        σ_int; when > 1 the top must map onto itself (same elements, within
+        ``symmetry_tolerance`` Å) after a turn of 2π/σ_int about the axis.
+    symmetry_tolerance : float, optional
+        Å; default 0.05.
+    label : str, optional
+        Prefix of error messages.
+
+    Returns
+    -------
+    dict
+        ``top``, ``rest`` (index lists), ``axis_atoms`` [a, b],
+        ``inertia_top_amu_A2``, ``inertia_rest_amu_A2``,
+        ``two_top_amu_A2``, ``coupled_amu_A2``.
+
+    Raises
+    ------
+    InputError
+        Indices out of range, a top that is not one bonded group joined to
+        the rest by exactly one bond (when ``axis`` is not given), an axis not
+        joining the top to the rest, a group lying on the axis, or a top
+        without the σ_int-fold symmetry.
+    """
+    n_atoms = len(atoms)
+    top = list(_index_tuple(f"{label} top", top))
+    if max(top) >= n_atoms:
+        raise InputError(f"{label} top: atom index {max(top)} out of range for {n_atoms} atoms")
+    if len(top) >= n_atoms:
+        raise InputError(f"{label} top: the top {top} holds every atom; the rest of the molecule must not be empty")
+    masses = geometry.masses_amu(atoms)
+    pos = geometry.unwrapped_positions(atoms)
+    in_top = np.zeros(n_atoms, dtype=bool)
+    in_top[top] = True
+    rest = [int(i) for i in np.flatnonzero(~in_top)]
+    bonds = _bond_matrix(atoms, pos)
+    if not _connected(bonds[np.ix_(top, top)]):
+        raise InputError(f"{label} top: atoms {top} do not form one bonded group (bond: d <= {BOND_FACTOR:g} "
+                         f"x sum of covalent radii)")
+    if axis is None:
+        joins = [(top[i], rest[j]) for i, j in np.argwhere(bonds[np.ix_(top, rest)])]
+        if len(joins) != 1:
+            raise InputError(f"{label} top: atoms {top} are joined to the rest of the molecule by {len(joins)} "
+                             f"bonds {[list(p) for p in joins]}; a rotating group is joined by exactly one bond "
+                             "(or give axis=(i, j))")
+        a, b = joins[0]
+    else:
+        pair = _index_tuple(f"{label} axis", axis, length=2)
+        if max(pair) >= n_atoms:
+            raise InputError(f"{label} axis: atom index {max(pair)} out of range for {n_atoms} atoms")
+        if in_top[pair[0]] == in_top[pair[1]]:
+            raise InputError(f"{label} axis: expected one atom of the top {top} and one of the rest, got {list(pair)}")
+        a, b = pair if in_top[pair[0]] else pair[::-1]
+    bond = pos[b] - pos[a]
+    length = float(np.linalg.norm(bond))
+    if length < 1e-8:
+        raise InputError(f"{label} axis: atoms {a} and {b} coincide; no axis")
+    e = bond / length
+    rel = pos - pos[a]
+    perp = rel - np.outer(rel @ e, e)
+    d2 = np.einsum("ij,ij->i", perp, perp)
+    i_top, i_rest = float(masses[in_top] @ d2[in_top]), float(masses[~in_top] @ d2[~in_top])
+    for what, value, group in (("top", i_top, top), ("rest", i_rest, rest)):
+        if value < _MIN_MOMENT:
+            raise InputError(f"{label} top: the {what} (atoms {group}) lies on the axis {a}-{b} "
+                             f"(moment {value:.3g} amu Å^2); nothing rotates")
+    sigma = _positive_int(f"{label} symmetry_number", symmetry_number)
+    if sigma > 1:
+        turned = pos[a] + _rotate(rel[top], e, 2.0 * C.pi / sigma)
+        numbers = np.asarray(atoms.numbers)[top]
+        d = np.linalg.norm(turned[:, None, :] - pos[top][None, :, :], axis=-1)
+        d[numbers[:, None] != numbers[None, :]] = np.inf
+        worst = float(d.min(axis=1).max())
+        if worst > symmetry_tolerance:
+            raise InputError(f"{label} symmetry_number: the top {top} does not look the same after a turn of "
+                             f"360/{sigma} degrees about the axis {a}-{b} (an atom moves {worst:.3g} Å from any "
+                             f"atom of its element, tolerance {symmetry_tolerance:g} Å); sigma_int = {sigma} "
+                             "does not fit")
+    # coupled moment: eliminate overall translation and rotation (Schur complement)
+    w = np.where(in_top[:, None], np.cross(e, rel), 0.0)
+    total = float(masses.sum())
+    com = masses @ pos / total
+    r = pos - com
+    momentum = masses @ w
+    angular = np.einsum("i,ij->j", masses, np.cross(r, w))
+    tensor = np.eye(3) * float(masses @ np.einsum("ij,ij->i", r, r)) - np.einsum("i,ij,ik->jk", masses, r, r)
+    coupled = i_top - float(momentum @ momentum) / total - float(angular @ np.linalg.solve(tensor, angular))
+    return {"top": top, "rest": rest, "axis_atoms": [int(a), int(b)],
+            "inertia_top_amu_A2": i_top, "inertia_rest_amu_A2": i_rest,
+            "two_top_amu_A2": i_top * i_rest / (i_top + i_rest), "coupled_amu_A2": float(coupled)}
+
+
+def _potential_shape(terms_eV, inertia_amu_A2):
+    """(barrier height eV, local minima per turn, harmonic wavenumber at the global minimum cm^-1)."""
+    v = np.asarray(terms_eV, dtype=float)
+    if not np.any(v):
+        return 0.0, 0, 0.0
+    n = np.arange(1, v.size + 1)
+    grid = 2.0 * C.pi * np.arange(720 * v.size) / (720 * v.size)
+    pot = (np.cos(np.outer(grid, n)) @ -v + v.sum()) / 2.0
+    deeper = (pot < np.roll(pot, 1)) & (pot <= np.roll(pot, -1))
+    phi = grid[int(np.argmin(pot))]
+    for _ in range(30):          # Newton on V'(phi) = sum (V_n/2) n sin(n phi)
+        slope = float(np.sum(0.5 * v * n * np.sin(n * phi)))
+        curve = float(np.sum(0.5 * v * n * n * np.cos(n * phi)))
+        if curve <= 0:
+            break
+        step = slope / curve
+        phi -= step
+        if abs(step) < 1e-14:
+            break
+    curve = max(float(np.sum(0.5 * v * n * n * np.cos(n * phi))), 0.0)
+    omega = np.sqrt(curve * C.eV / (inertia_amu_A2 * C.amu_A2))
+    nu_cm = C.hbar * omega / C.invcm
+    return float(pot.max() - pot.min()), int(deeper.sum()), float(nu_cm)
 
 
 class GasMolecule:
@@ -172,6 +552,14 @@ class GasMolecule:
         Distance tolerance in Å for the symmetry-number search; default 0.05.
     name : str, keyword-only
         Label of the results; default the chemical formula.
+    torsions : sequence of Torsion (or of dicts of its fields), keyword-only
+        Internal rotations treated as one-dimensional hindered rotors, each
+        replacing one harmonic mode (:class:`Torsion`; docs/methods-gas.md
+        §7). Default none. The replaced mode is chosen after the near-zero
+        surplus has been dropped and before the imaginary-mode policy, so a
+        torsion chosen by index or value may replace an imaginary mode. The
+        external ``symmetry_number`` is unchanged; σ_int divides the rotor's
+        own q. Non-linear molecules only.
 
     Attributes
     ----------
@@ -184,7 +572,9 @@ class GasMolecule:
     rotational_constants_cm : ndarray
         B (shape (1,)) or (A, B, C) in cm^-1; empty for an atom.
     frequencies : ndarray
-        The harmonic modes used, cm^-1.
+        The harmonic modes used, cm^-1 (without those replaced by torsions).
+    torsions : tuple of Torsion
+        The hindered internal rotors.
     rotor : str
         'none', 'classical' or 'levels'.
     choices : dict
@@ -195,7 +585,8 @@ class GasMolecule:
     InputError
         Wrong number of frequencies or rotational constants, non-negligible
         surplus modes, imaginary modes without a policy, a bad multiplicity,
-        symmetry number, option value or structure.
+        symmetry number, option value or structure, or a torsion that does not
+        fit the molecule (message names ``torsions[k]`` and the field).
 
     Examples
     --------
@@ -209,7 +600,7 @@ class GasMolecule:
                  electronic_levels=None, rotational_constants=None, *, rotor="auto",
                  level_sum_above_cm=5.0, centrifugal_cm=0.0, nuclear_spin=None,
                  even_j_symmetric=True, imaginary_modes="raise", near_zero_cm=50.0,
-                 shape_tolerance=1e-3, symmetry_tolerance=0.05, name=None):
+                 shape_tolerance=1e-3, symmetry_tolerance=0.05, name=None, torsions=()):
         masses = geometry.masses_amu(atoms)          # validates atoms
         self.atoms = atoms
         self.n_atoms = len(atoms)
@@ -240,6 +631,7 @@ class GasMolecule:
 
         self.rotational_constants_cm, self._rotation_source = self._rotational_constants(rotational_constants)
         self._setup_rotor(rotor, nuclear_spin, even_j_symmetric)
+        self.torsions, self._torsion_info = self._setup_torsions(torsions, symmetry_tolerance)
         self.frequencies = self._vibrational_modes(frequencies, imaginary_modes)
         self.imaginary_modes = imaginary_modes
         # validates the levels once (degeneracy and energies)
@@ -343,6 +735,8 @@ class GasMolecule:
     def _vibrational_modes(self, frequencies, policy):
         """The harmonic modes from the caller's list, with the near-zero surplus and imaginary modes handled."""
         nu = _signed_wavenumbers(frequencies)
+        n_given = nu.size
+        origin = np.arange(n_given)
         n_expected = {"monatomic": 0, "linear": 3 * self.n_atoms - 5,
                       "nonlinear": 3 * self.n_atoms - 6}[self.geometry]
         rule = {"monatomic": "0", "linear": "3N-5", "nonlinear": "3N-6"}[self.geometry]
@@ -366,7 +760,8 @@ class GasMolecule:
                     f"{self.name}; the {n_extra} surplus modes must be near-zero rigid-body modes "
                     f"(|nu| < {self.near_zero_cm:g} cm^-1), but the smallest {n_extra} are {_fmt(nu[extra])} cm^-1")
             self.dropped_modes = [float(v) for v in nu[np.sort(extra)]]
-            nu = nu[keep]
+            nu, origin = nu[keep], origin[keep]
+        nu = self._replace_torsion_modes(nu, origin, n_given)
         self.imaginary_handled = []
         bad = nu <= 0
         if np.any(bad):
@@ -388,12 +783,131 @@ class GasMolecule:
                 nu = np.abs(nu)
         return nu
 
+    def _setup_torsions(self, torsions, symmetry_tolerance):
+        """Validated Torsion specs and, for each, the recorded geometry and potential."""
+        if torsions is None:
+            torsions = ()
+        if isinstance(torsions, (Torsion, Mapping)):
+            torsions = (torsions,)
+        try:
+            items = list(torsions)
+        except TypeError:
+            raise InputError(f"GasMolecule torsions: expected a sequence of Torsion, got {torsions!r}") from None
+        if items and self.geometry != "nonlinear":
+            raise InputError(f"GasMolecule torsions: a {self.geometry} molecule ({self.name}) has no torsion; "
+                             "torsions need a non-linear molecule")
+        specs, info = [], []
+        for k, item in enumerate(items):
+            label = f"GasMolecule torsions[{k}]"
+            if isinstance(item, Mapping):
+                try:
+                    item = Torsion(**item)
+                except TypeError as exc:
+                    raise InputError(f"{label}: {exc}; the fields are those of adsorb.gas.Torsion") from None
+                except InputError as exc:
+                    raise InputError(f"{label}: {exc}") from None
+            elif not isinstance(item, Torsion):
+                raise InputError(f"{label}: expected an adsorb.gas.Torsion (or a dict of its fields), "
+                                 f"got {type(item).__name__}")
+            entry = {"symmetry_number": item.symmetry_number, "solver": item.solver}
+            if item.top is not None:
+                moments = torsion_moments(self.atoms, item.top, item.axis, symmetry_number=item.symmetry_number,
+                                          symmetry_tolerance=symmetry_tolerance, label=label)
+                entry.update(top_atoms=moments["top"], axis_atoms=moments["axis_atoms"],
+                             inertia_top_amu_A2=moments["inertia_top_amu_A2"],
+                             inertia_rest_amu_A2=moments["inertia_rest_amu_A2"])
+            if item.inertia_amu_A2 is not None:
+                inertia, source = item.inertia_amu_A2, "given"
+            elif item.reduced_moment == "two-top":
+                inertia, source = moments["two_top_amu_A2"], "two-top: I_top I_rest / (I_top + I_rest)"
+            else:
+                inertia, source = moments["coupled_amu_A2"], "coupled: I_top - |P|^2/M - L.I^-1.L"
+                if not inertia > _MIN_MOMENT:
+                    raise InputError(f"{label} reduced_moment: the coupled reduced moment is {inertia:.3g} amu Å^2; "
+                                     "expected > 0")
+            height, n_min, nu_min = _potential_shape(item.terms_eV, inertia)
+            entry.update(
+                reduced_moment_amu_A2=float(inertia), reduced_moment_source=source,
+                barrier_terms_cm={f"V{n}": v / C.invcm_eV for n, v in enumerate(item.terms_eV, start=1) if v != 0},
+                barrier_terms_eV={f"V{n}": v for n, v in enumerate(item.terms_eV, start=1) if v != 0},
+                barrier_height_eV=height, minima_per_turn=n_min, harmonic_frequency_at_minimum_cm=nu_min,
+                potential="V(phi) = sum_n (V_n/2) [1 - cos(n phi)]")
+            specs.append(item)
+            info.append(entry)
+        return tuple(specs), info
+
+    def _replace_torsion_modes(self, nu, origin, n_given):
+        """Remove the modes the torsions replace (recorded in their info); returns the remaining modes."""
+        taken = np.zeros(nu.size, dtype=bool)
+        for k, (spec, entry) in enumerate(zip(self.torsions, self._torsion_info)):
+            label = f"GasMolecule torsions[{k}] mode"
+            free = ~taken
+            if spec.mode == "lowest":
+                real = free & (nu > 0)
+                if not np.any(real):
+                    raise InputError(f"{label}: 'lowest' found no real harmonic mode left to replace among "
+                                     f"{_fmt(nu)} cm^-1")
+                pos = int(np.flatnonzero(real)[np.argmin(nu[real])])
+                how = "lowest real mode"
+            elif isinstance(spec.mode, int):
+                if spec.mode >= n_given:
+                    raise InputError(f"{label}: index {spec.mode} out of range for {n_given} frequencies "
+                                     f"(0..{n_given - 1})")
+                hit = np.flatnonzero(origin == spec.mode)
+                if hit.size == 0:
+                    raise InputError(f"{label}: frequency {spec.mode} was dropped as a near-zero rigid-body mode; "
+                                     "it cannot be a torsion")
+                pos = int(hit[0])
+                if taken[pos]:
+                    raise InputError(f"{label}: frequency {spec.mode} is already replaced by another torsion")
+                how = f"index {spec.mode} of the frequencies given"
+            else:
+                if not np.any(free):
+                    raise InputError(f"{label}: no harmonic mode left to replace")
+                cand = np.flatnonzero(free)
+                pos = int(cand[np.argmin(np.abs(nu[cand] - spec.mode))])
+                if abs(nu[pos] - spec.mode) > MODE_MATCH_CM:
+                    raise InputError(f"{label}: no free mode within {MODE_MATCH_CM:g} cm^-1 of {spec.mode:g} cm^-1 "
+                                     f"(nearest {nu[pos]:g} cm^-1)")
+                how = f"nearest mode to {spec.mode:g} cm^-1"
+            taken[pos] = True
+            entry.update(replaced_mode_cm=float(nu[pos]), replaced_mode_index=int(origin[pos]),
+                         replaced_mode_selected_by=how)
+        return nu[~taken]
+
+    def _torsion(self, k, t):
+        """Contribution of torsion k at temperatures t (solved once per distinct temperature)."""
+        spec, entry = self.torsions[k], self._torsion_info[k]
+        unique, inverse = np.unique(t.ravel(), return_inverse=True)
+        inertia, sigma = entry["reduced_moment_amu_A2"], spec.symmetry_number
+        terms = np.asarray(spec.terms_eV, dtype=float)
+        if spec.solver == "exact":
+            part = periodic.ring_rotor(unique, inertia, -0.5 * terms, symmetry_number=sigma)
+        else:
+            orders = np.flatnonzero(terms)
+            n = int(orders[0]) + 1 if orders.size else 1
+            barrier = float(terms[orders[0]]) if orders.size else 0.0
+            part = hindered.hindered_rotor(unique, inertia, barrier, n, sigma)
+            ok = hindered.rotor_closed_form_reliable(unique, inertia, barrier, n)
+            if not np.all(ok):
+                warnings.warn(
+                    f"{self.name} torsions[{k}]: the closed-form hindered rotor is outside its measured accuracy "
+                    f"(1 % in q, 0.02 k in S) at T = {_fmt(unique[~ok][:3])} K...; use solver='exact'",
+                    ModelWarning, stacklevel=3)
+        shape = t.shape
+        pick = lambda a: np.broadcast_to(a, unique.shape)[inverse].reshape(shape)  # noqa: E731
+        return Contribution(ln_q=pick(part.ln_q), energy=pick(part.energy), entropy=pick(part.entropy),
+                            heat_capacity=pick(part.heat_capacity), zpe=float(np.ravel(part.zpe)[0]))
+
     # ------------------------------------------------------------------ results
     @property
     def choices(self) -> dict:
         """Modelling choices (plain JSON-ready values), recorded in every result."""
+        model = "ideal gas, rigid rotor, harmonic oscillator (RRHO)"
+        if self.torsions:
+            model += f" with {len(self.torsions)} hindered internal rotor(s) replacing harmonic modes"
         return {
-            "model": "ideal gas, rigid rotor, harmonic oscillator (RRHO)",
+            "model": model,
             "geometry": self.geometry,
             "mass_amu": self.mass_amu,
             "symmetry_number": self.symmetry_number,
@@ -413,6 +927,7 @@ class GasMolecule:
             "near_zero_threshold_cm": self.near_zero_cm,
             "imaginary_modes": self.imaginary_modes,
             "imaginary_modes_handled_cm": list(self.imaginary_handled),
+            "torsions": [dict(entry) for entry in self._torsion_info],
             "entropy_convention": "conventional (nuclear-spin entropy omitted)",
             "energy_zero": "electronic energy at the potential minimum; H(0 K) = energy + zpe",
         }
@@ -437,9 +952,9 @@ class GasMolecule:
         """The independent motions as a list of (label, Contribution), in the order summed.
 
         Labels: 'translation', 'rotation' (not for an atom), 'vibration' (when
-        there are harmonic modes), 'electronic'. Internal motions that replace
-        harmonic modes (e.g. hindered torsions) belong in this list, with the
-        replaced modes removed from :attr:`frequencies`.
+        there are harmonic modes), 'torsion[k]' for each hindered internal
+        rotor (its replaced mode removed from :attr:`frequencies`),
+        'electronic'.
 
         Parameters
         ----------
@@ -459,6 +974,8 @@ class GasMolecule:
             out.append(("rotation", rotation))
         if self.frequencies.size:
             out.append(("vibration", harmonic(t, self.frequencies)))
+        for k in range(len(self.torsions)):
+            out.append((f"torsion[{k}]", self._torsion(k, t)))
         out.append(("electronic", electronic(t, self.multiplicity, self.electronic_levels)))
         return out
 
