@@ -23,6 +23,8 @@ from adsorb.errors import InputError
 from adsorb.partition import hindered as H
 from adsorb.partition import periodic as P
 from adsorb.partition.contribution import Contribution
+from adsorb.partition.rotation import free_rotor
+from adsorb.partition.translation import translation_2d
 
 KB = C.kB_eV
 I_METHYL = 5.3264e-47 / C.amu_A2  # 3 x 1.00784 amu x (1.03 Å)^2, as in the reference notes
@@ -170,8 +172,7 @@ def test_zero_barrier_is_the_free_translator_and_the_2d_gas():
     np.testing.assert_allclose(c.entropy, KB * (np.log(q) + 0.5), rtol=1e-13)
     np.testing.assert_allclose(c.heat_capacity, 0.5 * KB, rtol=1e-13)
     assert c.zpe == 0.0
-    translation = pytest.importorskip("adsorb.partition.translation")
-    gas = translation.translation_2d(t, m, b * b)
+    gas = translation_2d(t, m, b * b)
     both = c + c
     np.testing.assert_allclose(both.ln_q, gas.ln_q, rtol=1e-12)
     np.testing.assert_allclose(both.entropy, gas.entropy, rtol=1e-12)
@@ -188,6 +189,9 @@ def test_zero_barrier_is_the_free_rotor():
     q = np.sqrt(8 * np.pi**3 * 3.2 * C.amu_A2 * C.k_B * t) / (3 * C.h)
     np.testing.assert_allclose(c.ln_q, np.log(q), rtol=1e-13)
     np.testing.assert_allclose(c.entropy, KB * (np.log(q) + 0.5), rtol=1e-13)
+    other = free_rotor(t, 3.2, symmetry_number=3)  # the gas-phase building block
+    np.testing.assert_allclose(c.entropy, other.entropy, rtol=1e-12)
+    np.testing.assert_allclose(c.energy, other.energy, rtol=1e-12)
 
 
 @pytest.mark.parametrize("model", ["translator", "rotor"])
