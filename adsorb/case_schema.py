@@ -472,7 +472,7 @@ def read_outputs(root, ctx, conditions):
             if None not in (surface, gas, temps, grid):
                 curves.append(CurveSpec(kind, surface, gas, temps, tuple(p * factor for p in grid), inter_c))
         needs_pr |= bool(curves) and main_fug == "peng-robinson"
-    if needs_pr:
+    if needs_pr and main_fug != "peng-robinson":  # read_conditions reported the main choice already
         for g in (conditions.pressures_Pa if conditions is not None else {}):
             if g in ctx["gases"] and ctx["gases"][g].critical is None:
                 t.problem("coverages.fugacities", f"peng-robinson needs critical constants of {g!r}",

@@ -357,9 +357,11 @@ def run_study(case) -> StudyResult:
         extra = []
         coverages = []
         surfaces = sorted({a.surface for a in case.adsorbates.values() if a.in_coverages})
+        ideal_used = (out.coverages and surfaces and "ideal" in out.fugacities) or (
+            out.curves and case.conditions.fugacity == "ideal")
+        if ideal_used:
+            extra += s.compressibility_check(temps)
         if out.coverages and surfaces:
-            if "ideal" in out.fugacities or case.conditions.fugacity == "ideal":
-                extra += s.compressibility_check(temps)
             flags = {"off": (False,), "on": (True,), "both": (False, True)}[out.interactions]
             for surface in surfaces:
                 for fug in out.fugacities:
