@@ -28,7 +28,9 @@ def _fmt(v, digits=4):
     if isinstance(v, bool) or v is None:
         return escape(str(v))
     if isinstance(v, float):
-        return f"{v:.{digits}g}" if abs(v) >= 1e-3 or v == 0 else f"{v:.3e}"
+        if abs(v) < 1e-10:   # round-off of an exact zero (e.g. a diagram at its equilibrium potential)
+            return "0"
+        return f"{v:.{digits}g}" if abs(v) >= 1e-3 else f"{v:.3e}"
     return escape(str(v))
 
 
@@ -70,7 +72,7 @@ def render_html(doc, images) -> str:
     cond = doc["conditions"]
     t = cond["temperature_K"]
     out.append("<h2>Conditions</h2>" + _table(["quantity", "value"], [
-        ["temperatures (K)", f"{min(t):g} to {max(t):g} ({len(t)} values)"],
+        ["temperatures (K)", f"{min(t):g} to {max(t):g} ({len(t)} values)" if len(t) > 1 else f"{t[0]:g}"],
         ["fugacity model", cond["fugacity"]],
         ["gas standard pressure (Pa)", cond["gas_standard_pressure_Pa"]],
         ["default adsorbate standard state", cond["default_standard_state"] or "by model (lattice-half / savara-2d)"]]
@@ -80,7 +82,9 @@ def render_html(doc, images) -> str:
     out.append(_table(["gas", "electronic energy (eV)", "frequencies (cm^-1)", "S°(first T) (J/mol/K)", "source"],
                       [[n, g["energy_eV"] if g["energy_eV"] is not None else "anchored",
                         ", ".join(f"{v:g}" for v in g["frequencies_cm"]),
-                        g["thermo_1bar"]["entropy_J_mol_K"][0] if g["thermo_1bar"] else "-", g["source"]]
+                        g["thermo_1bar"]["entropy_J_mol_K"][0] if g["thermo_1bar"] else "-",
+                        g["source"] or (f"G = {g['gibbs_anchor']['species']} + {g['gibbs_anchor']['offset_eV']:g} eV; "
+                                        f"{g['gibbs_anchor']['source']}" if g["gibbs_anchor"] else "")]
                        for n, g in doc["gases"].items()]))
     out.append(_table(["surface", "energy (eV)", "site area (Å^2)", "source"],
                       [[n, s["energy_eV"], s["site_area_A2"] or "-", s["source"]] for n, s in doc["surfaces"].items()]))
@@ -124,6 +128,9 @@ def render_html(doc, images) -> str:
         out.append("<h2>Free-energy diagrams</h2>")
         for p in doc["pathways"]:
             out.append(f"<h3>{escape(p['name'])} ({escape(p['kind'])}, {p['temperature_K']:g} K)</h3>")
+            if p["pressures_Pa"]:
+                out.append("<p>Gas pressures in this diagram (others at 1 bar): " + ", ".join(
+                    f"{escape(g)} {v / 1e5:g} bar" for g, v in p["pressures_Pa"].items()) + ".</p>")
             if p["hydrogen_electrode"]:
                 out.append(f"<p>Computational hydrogen electrode: {escape(p['hydrogen_electrode'])}.</p>")
             figure(f"Free-energy diagram: {p['name']}")
