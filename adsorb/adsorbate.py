@@ -449,6 +449,12 @@ class Adsorbate:
                            symmetry_number=self.symmetry_number, inertia_amu_A2=self.inertia)
         if self.model == "2d-gas":
             out["site_area_A2"] = self.site_spacing**2
+        if self.model == "surface-pes":
+            cell = np.asarray(self.pes.cell_A, dtype=float)
+            out.update(lateral_surface={"lattice": self.pes.lattice, "source": self.pes.source,
+                                        "sites_per_cell": int(self.pes.n_sites),
+                                        "corrugation_eV": float(self.pes.v_max_eV - self.pes.v_min_eV)},
+                       site_area_A2=float(abs(np.linalg.det(cell))) / int(self.pes.n_sites))
         return out
 
     def thermo(self, temperature) -> ThermoTable:

@@ -273,3 +273,19 @@ def test_closed_form_warns_outside_validated_range():
     assert th.warnings
     exact = Adsorbate([300.0, 320.0, 900.0], 0.0, "hindered", solver="exact", **light).thermo(np.array([30.0]))
     assert not exact.warnings
+
+
+def test_surface_pes_model_replaces_the_two_translations():
+    # issue 6: model "surface-pes" uses the lateral surface in place of the two frustrated translations
+    from adsorb.partition import surface_pes
+
+    # invented site energies (eV) of a CO-like adsorbate on a square (100) lattice, a = 2.55 Å
+    pes = surface_pes.pes_from_sites("100", 2.55, {"top": 0.0, "bridge": 0.05, "hollow": 0.12})
+    t = np.array([300.0, 600.0])
+    ads = Adsorbate(FREQS, 0.0, "surface-pes", mass=CO_MASS, pes=pes)
+    assert sorted(m["index"] for m in ads.replaced_modes) == [0, 1]
+    expected = surface_pes.lateral_quantum(t, pes, CO_MASS).entropy + Adsorbate(FREQS[2:], 0.0).thermo(t).entropy
+    np.testing.assert_allclose(ads.thermo(t).entropy, expected, rtol=1e-12)
+    assert ads.thermo(t).choices["mobile"] is True
+    with pytest.raises(InputError, match="pes"):
+        Adsorbate(FREQS, 0.0, "surface-pes", mass=CO_MASS)
