@@ -7,6 +7,7 @@ Used by :func:`adsorb.case.load_case`; problems are recorded on the shared
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass
 
 from adsorb.errors import InputError
@@ -250,7 +251,9 @@ def try_objects(root, gases, adsorbates, surfaces):
             if any(f": {where}." in p or p.endswith(f": {where}") for p in root.problems):
                 continue
             try:
-                build(spec)
+                with warnings.catch_warnings():   # model warnings are collected when the study runs
+                    warnings.simplefilter("ignore", UserWarning)
+                    build(spec)
             except InputError as exc:
                 root.problem(where, str(exc).splitlines()[0], f"inputs that {'GasMolecule' if section == 'gases' else 'Adsorbate'} accepts")
 

@@ -200,9 +200,9 @@ def test_failure_while_writing_leaves_nothing(tmp_path, monkeypatch):
         raise InputError("simulated failure while writing")
 
     monkeypatch.setattr(report, "write_results", half_written)
-    out = tmp_path / "out"
+    out = tmp_path / "new" / "deeper" / "out"
     assert main(["run", str(CASES / "orr_fictitious_sites.toml"), "--out", str(out)]) == 2
-    assert list(tmp_path.iterdir()) == []
+    assert list(tmp_path.iterdir()) == []          # not even the parent folders made for DIR
 
 
 def test_debug_shows_the_exception(tmp_path):

@@ -53,6 +53,7 @@ def run(args) -> int:
     from adsorb.study import run_study
 
     parent = out.resolve().parent
+    created = [p for p in [parent, *parent.parents] if not p.exists()]
     parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.partial-", dir=parent))
     try:
@@ -67,6 +68,11 @@ def run(args) -> int:
             os.replace(tmp, out)
     except BaseException:
         shutil.rmtree(tmp, ignore_errors=True)
+        for p in created:            # innermost first: folders this run made for DIR
+            try:
+                p.rmdir()
+            except OSError:
+                break
         raise
     print(f"wrote {out}/report.html, results.json, {len(doc['files']['tables'])} tables, "
           f"{len(doc['files']['plots'])} plots")
