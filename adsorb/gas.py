@@ -47,20 +47,21 @@ IMAGINARY_POLICIES = ("raise", "drop", "invert")
 _NUCLEAR_SPIN = {("H", 1): 0.5, ("H", 2): 1.0, ("H", 3): 0.5}
 
 
-def _number(name, value, *, positive=True, allow_zero=False):
-    """A finite float, else InputError naming ``name``."""
+def _number(name, value, *, positive=True, allow_zero=False, owner="GasMolecule"):
+    """A finite float, else InputError naming ``name`` (prefixed by ``owner``)."""
+    label = f"{owner} {name}" if owner else name
     try:
         x = float(value)
     except (TypeError, ValueError):
-        raise InputError(f"GasMolecule {name}: expected a number, got {value!r}") from None
+        raise InputError(f"{label}: expected a number, got {value!r}") from None
     ok = np.isfinite(x) and (not positive or x > 0 or (allow_zero and x == 0))
     if not ok:
         need = ">= 0" if allow_zero else "> 0" if positive else "finite"
-        raise InputError(f"GasMolecule {name}: expected a finite number {need}, got {value!r}")
+        raise InputError(f"{label}: expected a finite number {need}, got {value!r}")
     return x
 
 
-def _positive_int(name, value):
+def _positive_int(name, value, *, owner="GasMolecule"):
     if isinstance(value, bool):
         ok = False
     else:
@@ -69,7 +70,8 @@ def _positive_int(name, value):
         except (TypeError, ValueError, OverflowError):
             ok = False
     if not ok:
-        raise InputError(f"GasMolecule {name}: expected a positive integer, got {value!r}")
+        label = f"{owner} {name}" if owner else name
+        raise InputError(f"{label}: expected a positive integer, got {value!r}")
     return int(value)
 
 
@@ -135,17 +137,29 @@ def _index_tuple(label, value, *, length=None):
     return tuple(int(i) for i in items)
 
 
+def _barrier_order(key):
+    """The order n of a barrier key: an int, or a string '3' / 'V3' (TOML keys, recorded choices); else None."""
+    if _is_integer(key):
+        return int(key)
+    if isinstance(key, str):
+        text = key[1:] if key[:1] in ("V", "v") else key
+        if text.isdigit():
+            return int(text)
+    return None
+
+
 def _barrier_terms(label, value):
     """V_n as a tuple (V_1, ..., V_N) from a mapping {n: V_n} or a sequence; InputError otherwise."""
     if isinstance(value, Mapping):
         if not value:
             raise InputError(f"{label}: expected at least one barrier term {{n: V_n}}, got {{}}")
-        orders = list(value)
-        if not all(_is_integer(n) and int(n) >= 1 for n in orders):
-            raise InputError(f"{label}: the keys are the orders n of V_n, positive integers; got {orders!r}")
-        terms = np.zeros(max(int(n) for n in orders))
-        for n, v in value.items():
-            terms[int(n) - 1] = _number(f"{label}[{n}]", v, positive=False)
+        orders = [_barrier_order(n) for n in value]
+        if not all(n is not None and n >= 1 for n in orders):
+            raise InputError(f"{label}: the keys are the orders n of V_n (positive integers, or 'V3'-style "
+                             f"strings); got {list(value)!r}")
+        terms = np.zeros(max(orders))
+        for n, (key, v) in zip(orders, value.items()):
+            terms[n - 1] = _number(f"{label}[{key!r}]", v, positive=False, owner="")
         return tuple(float(v) for v in terms)
     if isinstance(value, (str, bytes)):
         raise InputError(f"{label}: expected {{n: V_n}} or a sequence (V_1, V_2, ...), got {value!r}")
@@ -177,8 +191,8 @@ class Torsion:
     ----------
     barriers_cm : mapping {n: V_n} or sequence (V_1, V_2, ...), optional
         Barrier terms V_n in cm^-1 (any sign; the energy zero is then the
-        lowest point of V, found numerically). Stored as the tuple
-        (V_1, ..., V_N).
+        lowest point of V, found numerically). Keys are the orders n as
+        ints or as strings '3' / 'V3'. Stored as the tuple (V_1, ..., V_N).
     barriers_eV : mapping or sequence, optional
         The same in eV. Exactly one of ``barriers_cm`` / ``barriers_eV``.
         All terms zero is the free internal rotor.
@@ -244,19 +258,19 @@ class Torsion:
         put = lambda name, value: object.__setattr__(self, name, value)  # noqa: E731
         if (self.barriers_cm is None) == (self.barriers_eV is None):
             got = "neither" if self.barriers_cm is None else "both"
-            raise InputError(f"Torsion barriers_cm / barriers_eV: expected exactly one (e.g. barriers_cm={{3: 1024.0}}), "
-                             f"got {got}")
+            raise InputError("Torsion barriers_cm / barriers_eV: expected exactly one "
+                             f"(e.g. barriers_cm={{3: 1024.0}}), got {got}")
         if self.barriers_cm is not None:
             put("barriers_cm", _barrier_terms("Torsion barriers_cm", self.barriers_cm))
         else:
             put("barriers_eV", _barrier_terms("Torsion barriers_eV", self.barriers_eV))
-        put("symmetry_number", _positive_int("Torsion symmetry_number", self.symmetry_number))
+        put("symmetry_number", _positive_int("Torsion symmetry_number", self.symmetry_number, owner=""))
         if self.top is not None:
             put("top", _index_tuple("Torsion top", self.top))
         if self.axis is not None:
             put("axis", _index_tuple("Torsion axis", self.axis, length=2))
         if self.inertia_amu_A2 is not None:
-            put("inertia_amu_A2", _number("Torsion inertia_amu_A2", self.inertia_amu_A2))
+            put("inertia_amu_A2", _number("Torsion inertia_amu_A2", self.inertia_amu_A2, owner=""))
         if self.top is None and self.inertia_amu_A2 is None:
             raise InputError("Torsion top / inertia_amu_A2: expected the atom indices of the rotating group "
                              "or a reduced moment in amu Å^2, got neither")
@@ -433,7 +447,7 @@ def torsion_moments(atoms, top, axis=None, *, symmetry_number=1, symmetry_tolera
         if value < _MIN_MOMENT:
             raise InputError(f"{label} top: the {what} (atoms {group}) lies on the axis {a}-{b} "
                              f"(moment {value:.3g} amu Å^2); nothing rotates")
-    sigma = _positive_int(f"{label} symmetry_number", symmetry_number)
+    sigma = _positive_int(f"{label} symmetry_number", symmetry_number, owner="")
     deviation = 0.0
     if sigma > 1:
         # hard check: the off-axis atoms of each kind (element, mass) come in sets of sigma

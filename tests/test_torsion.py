@@ -69,7 +69,7 @@ def test_ethane_entropy_against_gurvich():
     # harmonic torsion: the RRHO column of gas-reference-data.md §3.2 (computed there), 228.404
     assert abs(s_harmonic - 228.404) < 0.005
     # an independent exact-rotor calculation with the same inputs gives 229.14 (check value of the
-    # project's issue, computed outside this code); the rounding of that value is 0.005
+    # issue that asked for torsions, computed outside this code); the rounding of that value is 0.005
     assert abs(s_hindered - 229.14) < 0.01
 
 
@@ -125,6 +125,10 @@ def test_mode_selection_by_index_value_or_lowest():
     # barriers in eV or as a sequence (V1, V2, V3) are the same potential
     same = ethane(barriers_cm=None, barriers_eV=[0.0, 0.0, V3_ETHANE_CM * C.invcm_eV])
     np.testing.assert_allclose(same.thermo(298.15).entropy, by_index, rtol=1e-12)
+    # string keys as in a TOML table or in the recorded choices
+    for key in ("3", "V3"):
+        np.testing.assert_allclose(ethane(barriers_cm={key: V3_ETHANE_CM}).thermo(298.15).entropy, by_index,
+                                   rtol=1e-13)
 
 
 def test_torsion_may_replace_an_imaginary_mode_chosen_by_index():
@@ -355,6 +359,7 @@ def _build(atoms=None, nu=None, **change):
     (lambda: _build(barriers_cm=None), "barriers_cm / barriers_eV: expected exactly one"),
     (lambda: _build(barriers_eV=[0.1]), "expected exactly one"),
     (lambda: _build(barriers_cm={0: 100.0}), "barriers_cm"),
+    (lambda: _build(barriers_cm={"W3": 100.0}), "barriers_cm: the keys are the orders"),
     (lambda: _build(barriers_cm={3: "high"}), "barriers_cm"),
     (lambda: _build(symmetry_number=2), "symmetry_number: sigma_int = 2 needs a potential"),
     (lambda: _build(symmetry_number=2, barriers_cm={6: 100.0}), r"torsions\[0\] symmetry_number"),
