@@ -816,7 +816,8 @@ def select_rows(path, selection=None, *, include_data=True, limit=None) -> list:
         kwargs = {"include_data": bool(include_data)}
         if limit is not None:
             kwargs["limit"] = int(limit)
-        records = [DbRecord(row, str(path)) for row in db.select(query, **kwargs, **pairs)]
+        with db:  # one SQLite connection for the whole selection (without it ase.db reconnects per row)
+            records = [DbRecord(row, str(path)) for row in db.select(query, **kwargs, **pairs)]
     except InputError:
         raise
     except Exception as exc:
