@@ -40,7 +40,6 @@ import warnings
 
 import numpy as np
 
-from adsorb import constants as C
 from adsorb.errors import InputError, ModelWarning
 from adsorb.partition import hindered as _hindered
 from adsorb.partition.contribution import Contribution

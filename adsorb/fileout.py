@@ -11,6 +11,13 @@ import tempfile
 from pathlib import Path
 
 
+def _default_mode() -> int:
+    """File mode an ordinary ``open`` would give (0o666 minus the umask); mkstemp files are private."""
+    umask = os.umask(0)
+    os.umask(umask)
+    return 0o666 & ~umask
+
+
 def write_text_atomic(path, text: str) -> Path:
     """Write ``text`` to ``path`` atomically and return the path."""
     path = Path(path)
@@ -19,6 +26,7 @@ def write_text_atomic(path, text: str) -> Path:
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as handle:
             handle.write(text)
+        os.chmod(tmp, _default_mode())
         os.replace(tmp, path)
     except BaseException:
         if os.path.exists(tmp):

@@ -704,7 +704,7 @@ def adsorbate_indices(atoms, indices=None) -> np.ndarray:
         msg = f"atoms: all {n} atoms are frozen by constraints, so no adsorbate is left; pass indices= explicitly"
         raise InputError(msg)
     if not frozen.any():
-        msg = f"atoms: no atom is frozen (no FixAtoms), so the adsorbate cannot be told from the slab; pass indices= explicitly"
+        msg = "atoms: no atom is frozen (no FixAtoms), so the adsorbate cannot be told from the slab; pass indices= explicitly"
         raise InputError(msg)
     return np.flatnonzero(~frozen)
 

@@ -12,19 +12,11 @@ import numpy as np
 
 from adsorb import constants as C
 from adsorb.errors import InputError
+from adsorb.partition.checks import positive_array as _positive
 from adsorb.partition.contribution import Contribution
 
 __all__ = ["electronic"]
 
-
-def _positive(name, value, unit):
-    """``value`` as a float array; InputError unless every element is finite and > 0."""
-    arr = np.asarray(value, dtype=float)
-    bad = ~(np.isfinite(arr) & (arr > 0))
-    if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else float(arr)
-        raise InputError(f"{name} must be finite and > 0 {unit}; got {first!r}")
-    return arr
 
 
 def _levels_array(degeneracy, levels):

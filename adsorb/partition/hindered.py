@@ -54,6 +54,7 @@ from scipy.special import i0e, i1e
 
 from adsorb import constants as C
 from adsorb.errors import InputError
+from adsorb.partition.checks import positive_array as _as_float_array
 from adsorb.partition.contribution import Contribution
 
 __all__ = [
@@ -70,24 +71,6 @@ __all__ = [
 # input checks
 # ---------------------------------------------------------------------------
 
-
-def _as_float_array(name, value, *, allow_zero=False):
-    """Return ``value`` as a float array; raise InputError if not finite and positive."""
-    try:
-        arr = np.asarray(value, dtype=float)
-    except (TypeError, ValueError):
-        msg = f"{name} must be a real number or array of real numbers, got {value!r}"
-        raise InputError(msg) from None
-    if arr.size == 0:
-        msg = f"{name} must not be empty, got {value!r}"
-        raise InputError(msg)
-    bad = ~np.isfinite(arr) | (arr < 0.0 if allow_zero else arr <= 0.0)
-    if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else float(arr)
-        need = "finite and >= 0" if allow_zero else "finite and > 0"
-        msg = f"{name} must be {need}, got {first!r}"
-        raise InputError(msg)
-    return arr
 
 
 def _as_count_array(name, value):

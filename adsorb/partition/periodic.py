@@ -77,6 +77,7 @@ from scipy.optimize import minimize_scalar
 
 from adsorb import constants as C
 from adsorb.errors import ConvergenceError, InputError
+from adsorb.partition.checks import positive_array as _positive
 from adsorb.partition.contribution import Contribution
 
 __all__ = [
@@ -125,23 +126,6 @@ class LevelSet:
 # input checks
 # ---------------------------------------------------------------------------
 
-
-def _positive(name, value, *, allow_zero=False):
-    try:
-        arr = np.asarray(value, dtype=float)
-    except (TypeError, ValueError):
-        msg = f"{name} must be a real number or array of real numbers, got {value!r}"
-        raise InputError(msg) from None
-    if arr.size == 0:
-        msg = f"{name} must not be empty, got {value!r}"
-        raise InputError(msg)
-    bad = ~np.isfinite(arr) | (arr < 0.0 if allow_zero else arr <= 0.0)
-    if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else float(arr)
-        need = "finite and >= 0" if allow_zero else "finite and > 0"
-        msg = f"{name} must be {need}, got {first!r}"
-        raise InputError(msg)
-    return arr
 
 
 def _positive_scalar(name, value):

@@ -20,6 +20,7 @@ import numpy as np
 
 from adsorb import constants as C
 from adsorb.errors import InputError, ModelWarning
+from adsorb.partition.checks import positive_array as _positive
 from adsorb.partition.contribution import Contribution
 
 __all__ = ["linear_rotor", "linear_rotor_levels", "nonlinear_rotor", "free_rotor"]
@@ -33,15 +34,6 @@ _CHUNK_ELEMENTS = 1 << 20
 # turnover) sum is reported as not converged.
 _TAIL_WARN = 1.0e-6
 
-
-def _positive(name, value, unit):
-    """``value`` as a float array; InputError unless every element is finite and > 0."""
-    arr = np.asarray(value, dtype=float)
-    bad = ~(np.isfinite(arr) & (arr > 0))
-    if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else float(arr)
-        raise InputError(f"{name} must be finite and > 0 {unit}; got {first!r}")
-    return arr
 
 
 def _symmetry(symmetry_number):

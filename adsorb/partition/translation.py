@@ -17,20 +17,11 @@ from __future__ import annotations
 import numpy as np
 
 from adsorb import constants as C
-from adsorb.errors import InputError
+from adsorb.partition.checks import positive_array as _positive
 from adsorb.partition.contribution import Contribution
 
 __all__ = ["translation_3d", "translation_2d", "thermal_wavelength_m"]
 
-
-def _positive(name, value, unit):
-    """``value`` as a float array; InputError unless every element is finite and > 0."""
-    arr = np.asarray(value, dtype=float)
-    bad = ~(np.isfinite(arr) & (arr > 0))
-    if np.any(bad):
-        first = arr[bad].flat[0] if arr.ndim else float(arr)
-        raise InputError(f"{name} must be finite and > 0 {unit}; got {first!r}")
-    return arr
 
 
 def thermal_wavelength_m(temperature, mass_amu):
