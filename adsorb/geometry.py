@@ -663,7 +663,7 @@ def adsorbate_indices(atoms, indices=None) -> np.ndarray:
     ``FixScaled`` whose mask fixes all three directions. Partial masks, bond
     constraints and other constraints do not freeze an atom. (ASE's
     ``Vibrations`` and ``VibrationsData`` each use a different rule; see
-    /work/shared/reference/ase-io.md §7.)
+    the maintainers' reference compilation ase-io.md §7.)
 
     Parameters
     ----------

@@ -1,6 +1,6 @@
 """Reference values for the gas-phase tests, one row per value, each row naming its source.
 
-Transcribed from /work/shared/reference/gas-reference-data.md (the compilation
+Transcribed from the maintainers' reference compilation gas-reference-data.md (the compilation
 for this project), which read the NIST-JANAF text tables and the other
 sources named on each row. Units: S and Cp in J/(mol K), enthalpy
 increments in kJ/mol, wavenumbers and rotational constants in cm^-1,

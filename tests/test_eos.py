@@ -3,9 +3,9 @@
 Sources:
 * Peng & Robinson, Ind. Eng. Chem. Fundam. 1976, 15, 59 (the equation itself).
 * R. Smith, Chemical Process Design and Integration, Wiley 2005, Example 4.1: Z of N2
-  at 273.15 K (quoted second-hand in /work/shared/reference/gas-reference-data.md §5b).
+  at 273.15 K (quoted second-hand in the maintainers' reference compilation gas-reference-data.md §5b).
 * Check values computed in the reference notes
-  (/work/shared/reference/adsorbate-models.md, "Check values" B) — regression values
+  (the maintainers' reference compilation adsorbate-models.md, "Check values" B) — regression values
   computed there from the same equations, not published numbers.
 * scipy.integrate.quad for ln φ = ∫0^p (Z - 1)/p' dp' (thermodynamic identity).
 """

@@ -6,7 +6,7 @@ potentials from adsorb.partition.periodic (itself tested against Mathieu
 characteristic values and a finite-difference grid in test_periodic.py);
 classical configuration integrals by scipy.integrate.quad; textbook harmonic
 oscillator, free translator and free rotor (McQuarrie, Statistical Mechanics,
-1976, ch. 5-6); regression values from /work/shared/reference/
+1976, ch. 5-6); regression values from the maintainers' reference compilation 
 adsorbate-models.md, check values B ("computed in the reference notes, not
 published").
 """

@@ -5,7 +5,7 @@ parameters nu0 = 100 cm^-1, alpha = 4, B_av = 1e-44 kg m^2 are from memory in
 the reference notes); J.-D. Chai, M. Head-Gordon, PCCP 2008, 10, 6615 (damping
 function); Y.-P. Li et al., J. Phys. Chem. C 2015, 119, 1840 (enthalpy
 interpolation, from memory); R. F. Ribeiro et al., J. Phys. Chem. B 2011, 115,
-14556 (floor, from memory); regression table from /work/shared/reference/
+14556 (floor, from memory); regression table from the maintainers' reference compilation 
 adsorbate-models.md, check values B ("computed in the reference notes, not
 published"); textbook harmonic oscillator and free rotor (McQuarrie,
 Statistical Mechanics, 1976).

@@ -8,7 +8,7 @@ Independent references used here:
   the free quantum rotor (sum over m of exp(-m^2 hbar^2/(2IkT))) and the
   harmonic oscillator for deep wells (textbook, e.g. McQuarrie, Statistical
   Mechanics, 1976, ch. 6);
-* the exact Bloch-band values tabulated in /work/shared/reference/
+* the exact Bloch-band values tabulated in the maintainers' reference compilation 
   adsorbate-models.md (check values B: "computed in the reference notes, not
   published"; an independent plane-wave code).
 """
