@@ -258,7 +258,7 @@ def test_quantum_deep_well_at_low_temperature_is_two_harmonic_oscillators():
                                               "hcp": 0.3 * scale})
         nu = pes.harmonic_frequencies_cm(m)
         t = 0.3 * nu[0] * C.invcm_K
-        got = sp.lateral_quantum(t, pes, m)
+        got = sp.lateral_quantum(t, pes, m, rtol=1e-4)  # 1e-4 is plenty for a 1 % comparison
         zpe_ho = 0.5 * np.sum(nu) * C.invcm_eV
         x = nu * C.invcm_K / t
         s_ho = KT * np.sum(x / np.expm1(x) - np.log(-np.expm1(-x)))
@@ -349,3 +349,19 @@ def test_plot_writes_png_and_svg(tmp_path):
     assert (tmp_path / "pes.png").stat().st_size > 1000
     assert (tmp_path / "pes.svg").read_text().lstrip().startswith("<?xml")
     assert fig.axes[0].get_xlabel() == "x (Å)"
+
+
+def test_basis_limit_raises_convergence_error():
+    from adsorb.errors import ConvergenceError
+    pes = sp.pes_from_sites("111", 2.77, E111)
+    with pytest.raises(ConvergenceError, match="plane waves"):
+        sp.lateral_spectrum(pes, 28.0, [300.0], max_basis=50)
+
+
+def test_low_and_high_temperature_ends_are_finite():
+    # 1 K and 5000 K: finite values, no warnings (pytest turns warnings into errors)
+    pes = sp.pes_from_sites("111", 2.77, {k: 0.01 * v for k, v in E111.items()})
+    c = sp.lateral_classical(np.array([1.0, 5000.0]), pes, 16.0)
+    assert np.all(np.isfinite(c.entropy)) and np.all(c.heat_capacity > 0)
+    q = sp.lateral_quantum(np.array([1.0, 10.0]), pes, 16.0)
+    assert np.all(np.isfinite(q.entropy)) and q.zpe >= 0

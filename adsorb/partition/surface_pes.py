@@ -1036,8 +1036,9 @@ def lateral_spectrum(pes: SurfacePES, mass_amu, temperature, *, rtol=1e-6,
       the level sum is split smoothly at E_c = V_max + 5w and the rest
       integrated with the exact smoothed density of states (see
       :class:`LateralSpectrum`), so the basis does not grow with T;
-    * plane-wave cut-off: raised until the Γ-point partition functions change
-      by less than ``rtol``;
+    * plane-wave cut-off: doubled until the Γ-point partition functions change
+      by less than ``rtol`` and the ground level by less than rtol·kT_min
+      (at least 1e-9 eV);
     * k-mesh: n = 2, 4, 8, ... (nested meshes) until q and U/kT change by less
       than ``rtol``.
 
@@ -1078,16 +1079,22 @@ def lateral_spectrum(pes: SurfacePES, mass_amu, temperature, *, rtol=1e-6,
     dv = vmax - vmin
     a_min = float(np.min(np.linalg.norm(pes.cell_A, axis=1)))
     eps_s = KINETIC_EV / (m * a_min**2)  # kinetic energy of |K| = 1/a
-    need = vmin + _THERMAL_SPAN * kt[-1]
     w = max(0.1 * dv, (4 / np.pi) * np.sqrt((2 * dv + eps_s) * eps_s))
-    if need <= vmax + 2 * _SWITCH_HALF * w:
-        width, centre, emax = 0.0, np.inf, need
-    else:
-        width, centre = w, vmax + _SWITCH_HALF * w
-        emax = centre + _SWITCH_HALF * w
     rho0 = pes.cell_area_A2 * np.pi * m / KINETIC_EV
     ops = _reciprocal_ops(pes)
     rng = np.random.default_rng(20170313)
+    span = _THERMAL_SPAN * kt[-1]
+    try:  # first guess of the ground level: harmonic zero-point energy of the deepest well
+        zpe_guess = 0.5 * float(np.sum(pes.harmonic_frequencies_cm(m))) * C.invcm_eV
+    except InputError:
+        zpe_guess = 0.0
+
+    def window(zpe):
+        """(switch width, switch centre, highest level kept) for a ground level zpe above V_min."""
+        need = vmin + zpe + span
+        if need <= vmax + 2 * _SWITCH_HALF * w:
+            return 0.0, np.inf, need
+        return w, vmax + _SWITCH_HALF * w, vmax + 2 * _SWITCH_HALF * w
 
     def summary(levels, weights):
         spec = LateralSpectrum(levels_eV=levels, weights=weights, ground_eV=float(levels.min()),
@@ -1101,25 +1108,42 @@ def lateral_spectrum(pes: SurfacePES, mass_amu, temperature, *, rtol=1e-6,
                 and np.all(np.abs(a[:, 1] - b[:, 1]) <= tol * kt))
 
     # --- plane-wave cut-off, converged at Γ: accept a cut-off when half its margin
-    # above the highest kept level already gives the same Γ-point moments ------------------
+    # above the highest kept level already gives the same Γ-point moments; the window is
+    # widened when the ground level turns out higher than guessed ----------------------------
     gamma = np.zeros(2)
 
-    def gamma_moments(margin):
+    def gamma_levels(margin):
         ecut_try = emax - vmin + margin
         lev, dim, _ = _levels_at_k(pes, m, gamma, ecut_try, emax, ops, rng)
         if dim > max_basis:
             raise ConvergenceError(f"lateral quantum solve at T = {tmax:g} K needs more than {max_basis} plane "
                                    f"waves (cut-off {ecut_try:.3g} eV); use lateral_classical or raise max_basis")
-        return summary(lev, np.ones_like(lev)), dim
+        return lev, dim
 
-    margin = 0.25 * min(dv, emax - vmin) + 8 * eps_s
-    prev, _ = gamma_moments(0.5 * margin)
-    while True:
-        cur, dim = gamma_moments(margin)
-        if close(cur, prev):
+    for _attempt in range(8):
+        width, centre, emax = window(zpe_guess)
+        margin = 0.25 * min(dv, emax - vmin) + 8 * eps_s
+        lev, _ = gamma_levels(0.5 * margin)
+        if lev.size == 0:
+            zpe_guess = 2.0 * zpe_guess + span
+            continue
+        prev = summary(lev, np.ones_like(lev))
+        prev_e0 = float(lev.min())
+        while True:
+            lev, dim = gamma_levels(margin)
+            cur = summary(lev, np.ones_like(lev))
+            e0 = float(lev.min())
+            # q and U are counted from the ground level, so its own convergence is checked too
+            if close(cur, prev) and abs(e0 - prev_e0) <= max(tol * kt[0], 1e-9):
+                break
+            prev, prev_e0 = cur, e0
+            margin *= 2.0
+        zpe_found = float(lev.min()) - vmin
+        if width > 0 or vmin + zpe_found + span <= emax * (1 + 1e-12) + 1e-12:
             break
-        prev = cur
-        margin *= 2.0
+        zpe_guess = zpe_found
+    else:
+        raise ConvergenceError(f"lateral quantum solve: could not place the level window at T = {tmax:g} K")
     ecut = emax - vmin + margin
     # --- k-mesh -------------------------------------------------------------------
     cache = {}
