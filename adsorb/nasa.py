@@ -39,7 +39,6 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
-import scipy.linalg
 
 from adsorb import constants as C
 from adsorb.errors import InputError, ModelWarning
