@@ -308,8 +308,10 @@ class _Problem:
         self.n = spec.n_species
         self.ln_c = ln_c                     # (n, m)
         self.inv_kT = 1.0 / kT               # (m,)
-        # rounding floor of R from the size of the terms that make it up
-        self.rnd = 8.0 * np.finfo(float).eps * (np.abs(ln_c) + 1.0)
+        # rounding floor of R from the size of the terms that make it up:
+        # |W| <= |ln c| + |h| + ..., |h_i| <= Σ_j |ε_ij| / (n_j kT)
+        h_bound = (np.abs(spec.eps) / spec.sites[None, :]).sum(axis=1)[:, None] * self.inv_kT
+        self.rnd = 4.0 * np.finfo(float).eps * (np.abs(ln_c) + 2.0 * h_bound + 1.0)
         self.eps = spec.eps
         self.bound = _entropy_curvature_bound(spec)
         lam_min = float(np.linalg.eigvalsh(spec.eps)[0])
@@ -405,22 +407,6 @@ class _Problem:
         s = theta * self.sites
         return theta * (X - self._kind_sums(s * X))
 
-    def w_hessian(self, theta, J):
-        """Symmetrised P^T J (= P^T H P, Hessian of Ω/kT in W at stationarity), live mask."""
-        s = theta * self.sites
-        # (P^T J)_ij = θ_i J_ij - s_i Σ_{l in kind(i)} θ_l J_lj
-        TJ = theta[:, None, :] * J
-        if self.one_kind:
-            K = TJ.sum(axis=0, keepdims=True)
-        else:
-            K = np.empty_like(TJ)
-            for idx in self.spec.members:
-                K[idx] = TJ[idx].sum(axis=0, keepdims=True)
-        A = TJ - s[:, None, :] * K
-        A = 0.5 * (A + np.swapaxes(A, 0, 1))
-        live = theta * (1.0 - s) > 1e-290
-        return A, live
-
     def directional(self, R, theta, dW):
         """(∂(Ω/kT)/∂W) · dW = R · (P dW)."""
         return (R * self.apply_projector(theta, dW)).sum(axis=0)
@@ -465,61 +451,86 @@ def _solve_small(A, b):
     return x
 
 
-def _positive_definite(A, live):
-    """Vectorised Cholesky test of symmetric stacks A (n, n, m) after Jacobi scaling.
+def _bordered_positive_definite(spec, inv_kT, theta, empty, scale=1.0):
+    """True where the Hessian (scale·S + ε/kT) of Ω/kT in θ is positive definite.
 
-    ``live`` (n, m) marks the coordinates to test; the others (coverages that
-    underflowed to 0 or site fractions at 1, whose W-space curvature vanishes while
-    their true curvature is infinite) are left out.
+    With D = diag(θ), D^½ (scale·S + ε/kT) D^½ = scale·I + Ẽ + scale Σ_k v_k v_k^T/θ_*,k,
+    Ẽ = D^½ ε D^½/kT, v_k = D^½ n restricted to kind k. By the Haynsworth inertia
+    formula it is positive definite exactly when the bordered matrix
+    [[scale·I + Ẽ, V], [V^T, -diag(θ_*)/scale]] has exactly one negative eigenvalue
+    per site kind. The inertia is counted from the pivots of an LDLᵀ factorisation;
+    the bordered form never divides by θ_* and stays well scaled near saturation.
+    Points with a (near-)zero pivot are reported as not positive definite.
     """
-    n = A.shape[0]
-    d = A[np.arange(n), np.arange(n)]
-    ok = ~np.any(live & ~(d > 0), axis=0)
-    r = np.where(live, 1.0 / np.sqrt(np.where(live & (d > 0), d, 1.0)), 0.0)
-    B = A * r[:, None, :] * r[None, :, :]
-    both = live[:, None, :] & live[None, :, :]
-    B = np.where(both, B, np.eye(n)[:, :, None])
-    L = np.zeros_like(B)
-    for k in range(n):
-        piv = B[k, k] - (L[k, :k] ** 2).sum(axis=0)
-        ok &= piv > 1e-12
-        L[k, k] = np.sqrt(np.maximum(piv, 1e-12))
-        for i in range(k + 1, n):
-            L[i, k] = (B[i, k] - (L[i, :k] * L[k, :k]).sum(axis=0)) / L[k, k]
-    return ok
+    n = spec.n_species
+    nk = len(spec.members)
+    m = theta.shape[1]
+    size = n + nk
+    r = np.sqrt(theta)
+    M = np.zeros((size, size, m))
+    M[:n, :n] = spec.eps[:, :, None] * (r[:, None, :] * r[None, :, :]) * inv_kT
+    M[np.arange(n), np.arange(n)] += scale
+    for k, idx in enumerate(spec.members):
+        v = r[idx] * spec.sites[idx][:, None]
+        M[idx, n + k] = v
+        M[n + k, idx] = v
+        M[n + k, n + k] = -empty[k] / scale
+    d = np.empty((size, m))
+    L = np.zeros((size, size, m))
+    small = np.zeros(m, dtype=bool)
+    for k in range(size):
+        dk = M[k, k] - (L[k, :k] ** 2 * d[:k]).sum(axis=0)
+        if k < n:
+            small |= np.abs(dk) < 1e-11 * (1.0 + np.abs(M[k, k]))
+        else:
+            small |= dk == 0
+        d[k] = np.where(dk == 0, 1.0, dk)
+        for i in range(k + 1, size):
+            L[i, k] = (M[i, k] - (L[i, :k] * L[k, :k] * d[:k]).sum(axis=0)) / d[k]
+    return ((d < 0).sum(axis=0) == nk) & ~small
 
 
-def _convexified(prob, theta, J):
+def _convexified(prob, theta, lnZ_k, J):
     """Replace J = H P by (H + μS) P where H is not positive definite (μ per point)."""
     sel = np.flatnonzero(prob.maybe_nonconvex)
+    sub = prob.take(sel)
     th = theta[:, sel]
-    Jsel = J[:, :, sel]
-    need = ~_positive_definite(*prob.take(sel).w_hessian(th, Jsel))
+    empty = np.exp(-lnZ_k[:, sel])
+    need = ~_bordered_positive_definite(sub.spec, sub.inv_kT, th, empty)
     if not np.any(need):
         return J
     J = J.copy()
     todo = np.flatnonzero(need)
-    sub = prob.take(sel)
+    Jsel = J[:, :, sel]
     Js = sub.entropic_jacobian(th)
     for frac in _MU_FRACTIONS:
         st = sub.take(todo)
-        Jt = Jsel[:, :, todo] + frac * st.mu_max * Js[:, :, todo]
+        mu = frac * st.mu_max
         if frac < 1.0:
-            good = _positive_definite(*st.w_hessian(th[:, todo], Jt))
+            good = _bordered_positive_definite(st.spec, st.inv_kT, th[:, todo], empty[:, todo],
+                                               1.0 + mu)
         else:
             good = np.ones(todo.size, dtype=bool)
-        J[:, :, sel[todo[good]]] = Jt[:, :, good]
+        J[:, :, sel[todo[good]]] = Jsel[:, :, todo[good]] + mu[good] * Js[:, :, todo[good]]
         todo = todo[~good]
         if todo.size == 0:
             break
     return J
 
 
-def _converged(aR, theta, rnd):
-    """Per point: coverage-weighted and relative tolerances on the equations, |R| = aR."""
-    tight = np.all(theta * (aR - rnd) <= 1e-14, axis=0)
+def _converged(aR, theta, rnd, prev_err):
+    """Per point: converged, and the coverage-weighted error max_i θ_i |R_i|.
+
+    Converged when the weighted error is below 1e-14 (allowing for the rounding
+    floor ``rnd`` of R) with every non-negligible |R_i| below 1e-10, or when the
+    weighted error is already below 1e-12 and the last Newton step no longer
+    reduced it (the rounding floor of the equations has been reached).
+    """
+    err = (theta * aR).max(axis=0)
     rel = np.all((aR <= 1e-10 + rnd) | (theta < 1e-250), axis=0)
-    return tight & rel
+    tight = np.all(theta * (aR - rnd) <= 1e-14, axis=0)
+    stalled = (err <= 1e-12) & (err >= 0.25 * prev_err)
+    return (tight | stalled) & rel, err
 
 
 def _newton(prob, W):
@@ -541,10 +552,11 @@ def _newton(prob, W):
     lnZ_k, lnZ_of, th = sub.state(Wa)
     R, eth = sub.residual(Wa, lnZ_of, th)
     phi = sub.omega(Wa, lnZ_k, lnZ_of, th, eth)
+    prev_err = np.full(m, np.inf)
     it = 0
     for it in range(1, _MAX_ITER + 1):
         aR = np.abs(R)
-        done = _converged(aR, th, sub.rnd)
+        done, prev_err = _converged(aR, th, sub.rnd, prev_err)
         if np.any(done):
             W[:, active[done]] = Wa[:, done]
             ok[active[done]] = True
@@ -553,12 +565,12 @@ def _newton(prob, W):
             if active.size == 0:
                 break
             sub = sub.take(keep)
-            Wa, lnZ_k, lnZ_of, th, R, eth, phi, aR = (
+            Wa, lnZ_k, lnZ_of, th, R, eth, phi, aR, prev_err = (
                 Wa[:, keep], lnZ_k[:, keep], lnZ_of[:, keep], th[:, keep], R[:, keep],
-                eth[:, keep], phi[keep], aR[:, keep])
+                eth[:, keep], phi[keep], aR[:, keep], prev_err[keep])
         J = sub.jacobian(th, eth)
         if np.any(sub.maybe_nonconvex):
-            J = _convexified(sub, th, J)
+            J = _convexified(sub, th, lnZ_k, J)
         dW = -_solve_small(J, R)
         slope = sub.directional(R, th, dW)
         big = np.max(np.abs(dW), axis=0)
@@ -612,7 +624,7 @@ def _newton(prob, W):
         if sub.one_kind:
             lnZ_of = lnZ_k
     else:
-        done = _converged(np.abs(R), th, sub.rnd)
+        done, _ = _converged(np.abs(R), th, sub.rnd, prev_err)
         ok[active[done]] = True
         W[:, active] = Wa
         return W, ok, it
@@ -629,10 +641,9 @@ def _start_from_ideal(prob, ln_c_shifted):
     return W
 
 
-def _is_local_minimum(prob, theta):
-    """True where the Hessian of Ω (in θ) is positive definite (tested as P^T H P)."""
-    e_theta = prob.eps @ theta
-    return _positive_definite(*prob.w_hessian(theta, prob.jacobian(theta, e_theta)))
+def _is_local_minimum(prob, theta, lnZ_k):
+    """True where the Hessian of Ω (in θ) is positive definite: a locally stable state."""
+    return _bordered_positive_definite(prob.spec, prob.inv_kT, theta, np.exp(-lnZ_k))
 
 
 def _entropy_curvature_bound(spec):
@@ -674,14 +685,7 @@ def _unique_by_box(prob):
         ln_e, _ = _ideal_ln_empty(lc, spec)
         theta_max[i] = np.exp(lc[i] + spec.sites[i] * ln_e[spec.kind_of[i]])
     ln_e_max, _ = _ideal_ln_empty(lc_lo, spec)
-    M = np.broadcast_to(spec.eps[:, :, None] * ik, (n, n, ik.size)).copy()
-    M[np.arange(n), np.arange(n)] += 1.0 / np.maximum(theta_max, 1e-300)
-    emp = np.exp(-ln_e_max)                   # 1/θ_*^max
-    for k, idx in enumerate(spec.members):
-        nk = np.zeros(n)
-        nk[idx] = spec.sites[idx]
-        M += (nk[:, None] * nk[None, :])[:, :, None] * emp[k]
-    return _positive_definite(M, np.ones((n, ik.size), dtype=bool))
+    return _bordered_positive_definite(spec, ik, theta_max, np.exp(ln_e_max))
 
 
 def _solve_interacting(spec, ln_c, kT):
@@ -716,7 +720,7 @@ def _solve_interacting(spec, ln_c, kT):
                 _, etht = sub.residual(Ws, lz_of, tht)
                 thetas.append(tht)
                 phis.append(sub.omega(Ws, lz_k, lz_of, tht, etht))
-                minima.append(_is_local_minimum(sub, tht))
+                minima.append(_is_local_minimum(sub, tht, lz_k))
             phis = np.array(phis)
             minima = np.array(minima)
             thetas = np.array(thetas)                      # (starts, n, m)
@@ -743,7 +747,7 @@ def _site_balance_residual(theta, ln_empty, ln_c, spec, kT):
     ln_eq = ln_c + spec.sites[:, None] * ln_empty[spec.kind_of]
     if spec.eps is not None:
         ln_eq = ln_eq - (spec.eps @ theta) / kT
-    occupied = spec.sites[:, None] * np.exp(ln_eq)
+    occupied = spec.sites[:, None] * np.exp(np.minimum(ln_eq, 700.0))
     res = np.zeros(theta.shape[1])
     for k, idx in enumerate(spec.members):
         r = np.abs(1.0 - np.exp(ln_empty[k]) - occupied[idx].sum(axis=0))
