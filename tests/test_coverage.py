@@ -410,3 +410,36 @@ def test_absent_species_has_zero_coverage():
     assert res.coverage[1] == 0 and res.coverage[2] == 0
     single = site_coverages([1e-3], [1e3], interactions=[[0.05]], temperature=300.0)
     assert_allclose(res.coverage[0], single.coverage[0], rtol=1e-13)
+
+
+def test_stable_pick_is_global_minimum_in_attractive_mixtures():
+    """The returned state has the lowest Ω among all self-consistent roots that
+    scipy.optimize.root finds from many random starts (log-formulated equations)."""
+    from scipy.special import logsumexp
+
+    rng = np.random.default_rng(11)
+    found_multiple = 0
+    for _ in range(12):
+        n = int(rng.integers(2, 4))
+        T = rng.uniform(100, 600)
+        kT = kB_eV * T
+        A = rng.normal(-0.08, 0.12, (n, n))
+        eps = (A + A.T) / 2
+        lnc = rng.uniform(-3, 5, n) + rng.uniform(-1, 1) * (-np.diag(eps) / (2 * kT))
+        K, p = np.exp(lnc) * 1e-5, np.full(n, 1e5)
+        res = site_coverages(K, p, None, eps, T, warn_multiple=False)
+        found_multiple += bool(res.multiple_solutions)
+        om = float(mean_field_grand_potential(res.coverage, K, p, T, None, eps))
+
+        def eqs(u, lnc=lnc, eps=eps, kT=kT, n=n):
+            return np.r_[u[:n] - lnc - u[n] + (eps @ np.exp(u[:n])) / kT,
+                         logsumexp(u)]
+
+        best = np.inf
+        for _ in range(25):
+            sol = root(eqs, np.log(rng.dirichlet(np.ones(n + 1))), tol=1e-14)
+            if np.abs(eqs(sol.x)).max() < 1e-9:
+                best = min(best, float(mean_field_grand_potential(
+                    np.exp(sol.x[:n]), K, p, T, None, eps)))
+        assert om <= best + 1e-10 * abs(best) + 1e-13
+    assert found_multiple > 0
