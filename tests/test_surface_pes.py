@@ -365,3 +365,37 @@ def test_low_and_high_temperature_ends_are_finite():
     assert np.all(np.isfinite(c.entropy)) and np.all(c.heat_capacity > 0)
     q = sp.lateral_quantum(np.array([1.0, 10.0]), pes, 16.0)
     assert np.all(np.isfinite(q.entropy)) and q.zpe >= 0
+
+
+# ---------------------------------------------------------------------------
+# property-based checks (hypothesis)
+# ---------------------------------------------------------------------------
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+_energy = st.floats(min_value=-2.0, max_value=2.0, allow_nan=False)
+
+
+@settings(max_examples=25)
+@given(top=_energy, bridge=_energy, fcc=_energy, hcp=_energy, a=st.floats(min_value=2.0, max_value=4.0))
+def test_property_hexagonal_site_fit_is_exact_and_symmetric(top, bridge, fcc, hcp, a):
+    energies = {"top": top, "bridge": bridge, "fcc": fcc, "hcp": hcp}
+    pes = sp.pes_from_sites("111", a, energies)
+    got = pes.site_energies()
+    for key, val in energies.items():
+        assert got[key] == pytest.approx(val, abs=1e-11)
+    pts = np.random.default_rng(0).uniform(-5, 5, size=(20, 2))
+    v0 = pes.energy(pts[:, 0], pts[:, 1])
+    q = pts @ rotation(120).T
+    np.testing.assert_allclose(pes.energy(q[:, 0], q[:, 1]), v0, atol=1e-11)
+    assert pes.v_min_eV <= min(energies.values()) + 1e-12 and pes.v_max_eV >= max(energies.values()) - 1e-12
+
+
+@settings(max_examples=20)
+@given(w=st.floats(min_value=0.0, max_value=1.0), t=st.floats(min_value=5.0, max_value=3000.0))
+def test_property_classical_entropy_grows_with_temperature_and_falls_with_corrugation(w, t):
+    flat = sp.pes_from_sites("100", 2.77, {"top": 0.0, "bridge": 0.0, "hollow": 0.0})
+    pes = sp.pes_from_sites("100", 2.77, {"top": 0.0, "bridge": w, "hollow": 2 * w})
+    c = sp.lateral_classical(np.array([t, 1.05 * t]), pes, 20.0)
+    assert c.entropy[1] > c.entropy[0]
+    assert c.entropy[0] <= sp.lateral_classical(t, flat, 20.0).entropy * (1 + 1e-12)  # 2D gas is the upper limit

@@ -228,3 +228,21 @@ def test_files_and_plot(tmp_path):
     fig = tpd.plot_tpd(runs, tmp_path / "spectrum.png")
     assert (tmp_path / "spectrum.png").stat().st_size > 1000 and (tmp_path / "spectrum.svg").exists()
     assert "ML/K" in fig.axes[0].get_ylabel()
+
+
+# ---------------------------------------------------------------------------
+# property-based checks (hypothesis)
+# ---------------------------------------------------------------------------
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+
+@settings(max_examples=20)
+@given(e=st.floats(min_value=0.2, max_value=3.0), log_nu=st.floats(min_value=8.0, max_value=17.0),
+       beta=st.floats(min_value=0.1, max_value=10.0), theta0=st.floats(min_value=0.01, max_value=1.0))
+def test_property_first_order_peak_and_conservation(e, log_nu, beta, theta0):
+    tp = tpd.peak_temperature_first_order(e, 10**log_nu, beta)
+    run = tpd.simulate_tpd(theta0, beta, prefactor=10**log_nu, energy_eV=e, temperature_start_K=0.6 * tp)
+    assert run.peak_temperature_K == pytest.approx(tp, abs=1e-4)
+    assert run.desorbed_ML == pytest.approx(theta0, abs=1e-6)
+    assert np.all(run.coverage >= 0) and np.all(run.rate_per_K >= 0)

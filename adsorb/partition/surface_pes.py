@@ -543,6 +543,12 @@ def pes_from_grid(cell_A, energies_eV, *, n_sites=1, sites=None) -> SurfacePES:
     ------
     InputError
         Bad cell, grid not 2D, fewer than 2 points per direction, non-finite energies.
+
+    Notes
+    -----
+    The point group of the surface is detected about the cell origin only. Put the
+    origin of the grid on a high-symmetry site (e.g. a top atom) so that the quantum
+    solve can use the symmetry: without it the same levels cost about ten times more.
     """
     cell = _cell(cell_A)
     try:
