@@ -399,3 +399,23 @@ def test_property_classical_entropy_grows_with_temperature_and_falls_with_corrug
     c = sp.lateral_classical(np.array([t, 1.05 * t]), pes, 20.0)
     assert c.entropy[1] > c.entropy[0]
     assert c.entropy[0] <= sp.lateral_classical(t, flat, 20.0).entropy * (1 + 1e-12)  # 2D gas is the upper limit
+
+
+def test_symmetry_found_about_a_shifted_origin_and_levels_unchanged():
+    # the same surface sampled on a grid whose origin is off every symmetry point: the point group is
+    # found about the minimum or maximum, and the quantum levels equal those of the site-based surface
+    ref = sp.pes_from_sites("111", 2.77, E111)
+    u = (np.arange(12) + 0.123) / 12
+    grid = sp.pes_from_grid(ref.cell_A, ref.energy_fractional(u[:, None], u[None, :] + 0.05))
+    assert len(grid.point_group) == 6
+    o = np.array(grid.symmetry_origin)
+    rng = np.random.default_rng(2)
+    r = rng.uniform(0, 1, size=(30, 2))
+    for op in grid.point_group:
+        rr = o + r @ np.asarray(op).T
+        np.testing.assert_allclose(grid.energy_fractional(rr[:, 0], rr[:, 1]),
+                                   grid.energy_fractional(o[0] + r[:, 0], o[1] + r[:, 1]), atol=1e-11)
+    t = np.array([100.0, 300.0])
+    a, b = sp.lateral_quantum(t, grid, 16.0), sp.lateral_quantum(t, ref, 16.0)
+    np.testing.assert_allclose(a.ln_q, b.ln_q, rtol=1e-7)
+    assert a.zpe == pytest.approx(b.zpe, rel=1e-8)

@@ -45,7 +45,7 @@ import itertools
 import os
 import tempfile
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
@@ -122,10 +122,13 @@ class SurfacePES:
     min_fractional : tuple
         Fractional coordinates of the global minimum.
     point_group : tuple of ndarray
-        The integer 2x2 matrices M (acting on fractional coordinates about the
-        cell origin) with V(M r) = V(r), detected from the coefficients.
+        The integer 2x2 matrices M (acting on fractional coordinates about
+        ``symmetry_origin``) with V(o + M r) = V(o + r), detected from the coefficients.
     source : str
         How the surface was built.
+    symmetry_origin : tuple
+        Fractional position o about which ``point_group`` holds (the cell origin,
+        or the minimum or maximum of V when that gives a larger group).
     """
 
     cell_A: np.ndarray
@@ -139,6 +142,7 @@ class SurfacePES:
     min_fractional: tuple
     point_group: tuple = field(repr=False)
     source: str = ""
+    symmetry_origin: tuple = (0.0, 0.0)
 
     # ---- geometry ------------------------------------------------------
     @property
@@ -330,6 +334,31 @@ def _extremum(g, coef, sign):
     return sign * best[0], tuple(float(x) % 1.0 for x in best[1])
 
 
+def _snap(pos, max_denominator=12, tol=1e-6):
+    """Fractional coordinates rounded to a nearby fraction p/q (q <= 12) when within tol."""
+    out = []
+    for x in pos:
+        x = float(x) % 1.0
+        best = x
+        for q in range(1, max_denominator + 1):
+            cand = round(x * q) / q
+            if abs(cand - x) < tol:
+                best = cand % 1.0
+                break
+        out.append(best)
+    return tuple(out)
+
+
+def _centred(pes):
+    """Coefficients of V(o + r), o = pes.symmetry_origin (same levels; point_group holds about r = 0)."""
+    o = np.asarray(pes.symmetry_origin, dtype=float)
+    if not np.any(o):
+        return pes
+    coef = pes.coefficients_eV * np.exp(2j * np.pi * (pes.g_indices @ o))
+    pmin = tuple(float(x) for x in (np.asarray(pes.min_fractional) - o) % 1.0)
+    return replace(pes, coefficients_eV=coef, symmetry_origin=(0.0, 0.0), min_fractional=pmin)
+
+
 def _make_pes(cell, g, coef, *, n_sites, sites, lattice, source):
     g = np.asarray(g, dtype=int).reshape(-1, 2)
     coef = np.asarray(coef, dtype=complex).reshape(-1)
@@ -342,11 +371,17 @@ def _make_pes(cell, g, coef, *, n_sites, sites, lattice, source):
     if isinstance(n_sites, bool) or not isinstance(n_sites, (int, np.integer)) or n_sites < 1:
         raise InputError(f"n_sites must be a positive integer (sites per cell); got {n_sites!r}")
     vmin, pmin = _extremum(g, coef, +1.0)
-    vmax, _ = _extremum(g, coef, -1.0)
-    group = _invariance_group(cell, g, coef)
+    vmax, vmax_pos = _extremum(g, coef, -1.0)
+    group, origin = _invariance_group(cell, g, coef), (0.0, 0.0)
+    for cand in (_snap(pmin), _snap(vmax_pos)):
+        shifted = coef * np.exp(2j * np.pi * (g @ np.array(cand)))
+        trial = _invariance_group(cell, g, shifted)
+        if len(trial) > len(group):
+            group, origin = trial, cand
     return SurfacePES(cell_A=cell, g_indices=g, coefficients_eV=coef, n_sites=int(n_sites),
                       sites=dict(sites), lattice=lattice, v_min_eV=float(vmin), v_max_eV=float(vmax),
-                      min_fractional=pmin, point_group=group, source=source)
+                      min_fractional=pmin, point_group=group, source=source,
+                      symmetry_origin=tuple(float(x) for x in origin))
 
 
 # ---------------------------------------------------------------------------
@@ -1087,6 +1122,7 @@ def lateral_spectrum(pes: SurfacePES, mass_amu, temperature, *, rtol=1e-6,
     eps_s = KINETIC_EV / (m * a_min**2)  # kinetic energy of |K| = 1/a
     w = max(0.1 * dv, (4 / np.pi) * np.sqrt((2 * dv + eps_s) * eps_s))
     rho0 = pes.cell_area_A2 * np.pi * m / KINETIC_EV
+    pes = _centred(pes)  # translate V so that its point group acts about r = 0 (levels unchanged)
     ops = _reciprocal_ops(pes)
     rng = np.random.default_rng(20170313)
     span = _THERMAL_SPAN * kt[-1]
@@ -1282,8 +1318,9 @@ def plot_surface(pes: SurfacePES, path, *, n_cells=3, resolution=60, title=None)
     cbar.set_label("V - V_min (eV)")
     markers = "os^vD*"
     for idx, (name, (u0, v0)) in enumerate(pes.sites.items()):
+        o = np.asarray(pes.symmetry_origin, dtype=float)
         equiv = {(round(float(p[0]) % 1.0, 9) % 1.0, round(float(p[1]) % 1.0, 9) % 1.0)
-                 for p in (op @ np.array([u0, v0]) for op in pes.point_group)}
+                 for p in (o + op @ (np.array([u0, v0]) - o) for op in pes.point_group)}
         pts = [(eu + i, ev + j) for eu, ev in sorted(equiv) for i in range(n_cells) for j in range(n_cells)]
         px = [p[0] * a[0, 0] + p[1] * a[1, 0] for p in pts]
         py = [p[0] * a[0, 1] + p[1] * a[1, 1] for p in pts]
