@@ -581,9 +581,10 @@ def pes_from_grid(cell_A, energies_eV, *, n_sites=1, sites=None) -> SurfacePES:
 
     Notes
     -----
-    The point group of the surface is detected about the cell origin only. Put the
-    origin of the grid on a high-symmetry site (e.g. a top atom) so that the quantum
-    solve can use the symmetry: without it the same levels cost about ten times more.
+    The point group of the surface is detected about the cell origin and about the
+    minimum and maximum of V (snapped to nearby simple fractions), so a grid whose
+    origin is off every symmetry point still lets the quantum solve use the symmetry.
+    A surface without any symmetry costs about ten times more to solve.
     """
     cell = _cell(cell_A)
     try:
