@@ -155,7 +155,9 @@ def _build_spec(n, dissociative, interactions, sites_per_species, site_kind):
         diss = np.zeros(n, dtype=bool)
     else:
         try:
-            diss_list = [bool(x) if isinstance(x, (bool, np.bool_)) else None for x in dissociative]
+            diss_list = [bool(x) if isinstance(x, (bool, np.bool_))
+                         or (isinstance(x, (int, np.integer)) and x in (0, 1)) else None
+                         for x in dissociative]
         except TypeError:
             msg = f"dissociative: expected a sequence of {n} booleans, got {dissociative!r}"
             raise InputError(msg) from None
