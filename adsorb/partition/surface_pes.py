@@ -966,21 +966,18 @@ def _blocks(basis, k, ops, rng):
         if np.any(partner < 0):
             raise ConvergenceError("plane-wave basis is not closed under time reversal (internal error)")
         idx = np.arange(d)
-        first = idx[idx <= partner]  # one representative per pair (and the fixed points)
-        cols, rows, vals = [], [], []
-        col = 0
-        real_of = {}
-        for i in first:
-            j = partner[i]
-            if i == j:
-                rows.append(i); cols.append(col); vals.append(1.0 + 0j)
-                real_of[i] = col
-                col += 1
-            else:
-                s = 1 / np.sqrt(2)
-                rows += [i, j]; cols += [col, col]; vals += [s, s]
-                rows += [i, j]; cols += [col + 1, col + 1]; vals += [-1j * s, 1j * s]
-                col += 2
+        if np.any(partner[partner] != idx):
+            raise ConvergenceError("time-reversal partner map is not an involution (internal error)")
+        fixed = idx[partner == idx]          # real plane waves (k + G = 0 up to R)
+        pair = idx[idx < partner]            # one representative per pair {G, θG}
+        s = 1 / np.sqrt(2)
+        nf, npair = fixed.size, pair.size
+        cos_col = nf + 2 * np.arange(npair)
+        rows = np.concatenate([fixed, pair, partner[pair], pair, partner[pair]])
+        cols = np.concatenate([np.arange(nf), cos_col, cos_col, cos_col + 1, cos_col + 1])
+        vals = np.concatenate([np.ones(nf, dtype=complex), np.full(npair, s, dtype=complex),
+                               np.full(npair, s, dtype=complex), np.full(npair, -1j * s),
+                               np.full(npair, 1j * s)])
         u = scipy.sparse.csc_matrix((vals, (rows, cols)), shape=(d, d))
         real = True
     else:
