@@ -389,7 +389,11 @@ class _Problem:
         """J = ∂R/∂W = (S + ε/kT) P, shape (n, n, m)."""
         s = theta * self.sites
         t_k = theta * self.inv_kT
-        if self.one_kind:
+        if self.one_kind and not self.multi_site:
+            # s = θ: J_ij = δ_ij + (ε_ij - Σ_l ε_il θ_l) θ_j / kT
+            J = self.eps[:, :, None] - e_theta[:, None, :]
+            J *= t_k[None]
+        elif self.one_kind:
             g_k = e_theta * self.inv_kT                      # Σ_l ε_il θ_l / kT
             J = self.eps[:, :, None] * t_k[None]
             J -= g_k[:, None, :] * s[None]
@@ -582,10 +586,14 @@ def _newton(prob, W):
         near = aR.max(axis=0) < 1e-8
         alpha = np.ones(active.size)
         tol = 1e-13 * (np.abs(phi) + 1.0)
-        # first trial: the full (capped) step for every point
+        # first trial: the full (capped) step for every point; where every point is
+        # already in the quadratic regime the step is taken without evaluating Ω
         Wt = Wa + dW
         lz_k, lz_of, tht = sub.state(Wt)
         Rt, etht = sub.residual(Wt, lz_of, tht)
+        if np.all(near):
+            Wa, lnZ_k, lnZ_of, th, R, eth = Wt, lz_k, lz_of, tht, Rt, etht
+            continue
         phit = sub.omega(Wt, lz_k, lz_of, tht, etht)
         accept = near | (phit <= phi + 1e-4 * slope + tol)
         if np.all(accept):
@@ -751,14 +759,18 @@ def _solve_interacting(spec, ln_c, kT):
 
 def _site_balance_residual(theta, ln_empty, ln_c, spec, kT):
     """max_k |1 - θ_*,k - Σ_i n_i c_i θ_*^n_i exp(-h_i)|; arrays (n, M)/(n_kinds, M)."""
-    ln_eq = ln_c + spec.sites[:, None] * ln_empty[spec.kind_of]
-    if spec.eps is not None:
-        ln_eq = ln_eq - (spec.eps @ theta) / kT
-    occupied = spec.sites[:, None] * np.exp(np.minimum(ln_eq, 700.0))
-    res = np.zeros(theta.shape[1])
-    for k, idx in enumerate(spec.members):
-        r = np.abs(1.0 - np.exp(ln_empty[k]) - occupied[idx].sum(axis=0))
-        res = np.maximum(res, r)
+    M = theta.shape[1]
+    res = np.zeros(M)
+    sites = spec.sites[:, None]
+    for lo in range(0, M, _CHUNK):
+        sl = slice(lo, min(M, lo + _CHUNK))
+        ln_eq = ln_c[:, sl] + sites * ln_empty[spec.kind_of, sl]
+        if spec.eps is not None:
+            ln_eq -= (spec.eps @ theta[:, sl]) / kT[sl]
+        occupied = sites * np.exp(np.minimum(ln_eq, 700.0))
+        for k, idx in enumerate(spec.members):
+            r = np.abs(1.0 - np.exp(ln_empty[k, sl]) - occupied[idx].sum(axis=0))
+            np.maximum(res[sl], r, out=res[sl])
     return res
 
 
