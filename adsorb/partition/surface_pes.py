@@ -67,6 +67,7 @@ __all__ = [
     "lateral_quantum",
     "lateral_spectrum",
     "plot_surface",
+    "star_functions",
     "SITE_POSITIONS",
 ]
 
