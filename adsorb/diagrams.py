@@ -45,18 +45,15 @@ in K. Functions are pure; the dataclasses are frozen.
 
 from __future__ import annotations
 
-import io
 import math
-import os
-import tempfile
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from pathlib import Path
 
 import numpy as np
 
 from adsorb import constants as C
 from adsorb.errors import InputError
+from adsorb.fileout import write_figure
 from adsorb.thermo import ThermoTable
 
 __all__ = [
@@ -79,7 +76,6 @@ __all__ = [
     "electrochemical_summary",
     "thermal_summary",
     "plot_pathways",
-    "write_figure",
 ]
 
 _SCALES = ("RHE", "SHE")
@@ -870,47 +866,6 @@ def thermal_summary(pathway: Pathway, potential=0.0, *, scale: str = "RHE", ph=0
 # ---------------------------------------------------------------------------
 
 
-def _write_bytes_atomic(path: Path, data: bytes) -> Path:
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
-    try:
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(data)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
-    return path
-
-
-def write_figure(figure, path) -> tuple:
-    """Write ``figure`` as ``<stem>.png`` and ``<stem>.svg``, each atomically.
-
-    Parameters
-    ----------
-    figure : matplotlib.figure.Figure
-    path : str or Path
-        File stem; a ``.png`` or ``.svg`` suffix is replaced.
-
-    Returns
-    -------
-    tuple of Path
-        (png path, svg path).
-    """
-    from adsorb.fileout import write_text_atomic
-
-    stem = Path(path)
-    if stem.suffix.lower() in (".png", ".svg"):
-        stem = stem.with_suffix("")
-    png, svg = stem.parent / (stem.name + ".png"), stem.parent / (stem.name + ".svg")
-    buffer = io.BytesIO()
-    figure.savefig(buffer, format="png", dpi=150)
-    _write_bytes_atomic(png, buffer.getvalue())
-    text = io.StringIO()
-    figure.savefig(text, format="svg")
-    write_text_atomic(svg, text.getvalue())
-    return png, svg
 
 
 def plot_pathways(pathways, path, *, potentials=(0.0,), scale: str = "RHE", ph=0.0, annotate: bool = True,

@@ -1,10 +1,12 @@
 """Atomic writing of output files: write to a temporary sibling, then rename.
 
 An interrupted or failed write therefore never leaves a partial file behind.
+Text, JSON, bytes and matplotlib figures (PNG + SVG) all go through here.
 """
 
 from __future__ import annotations
 
+import io
 import json
 import os
 import tempfile
@@ -18,14 +20,14 @@ def _default_mode() -> int:
     return 0o666 & ~umask
 
 
-def write_text_atomic(path, text: str) -> Path:
-    """Write ``text`` to ``path`` atomically and return the path."""
+def write_bytes_atomic(path, data: bytes) -> Path:
+    """Write ``data`` to ``path`` atomically and return the path."""
     path = Path(path)
     path.parent.mkdir(parents=True, exist_ok=True)
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
     try:
-        with os.fdopen(fd, "w", encoding="utf-8", newline="") as handle:
-            handle.write(text)
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
         os.chmod(tmp, _default_mode())
         os.replace(tmp, path)
     except BaseException:
@@ -35,6 +37,40 @@ def write_text_atomic(path, text: str) -> Path:
     return path
 
 
+def write_text_atomic(path, text: str) -> Path:
+    """Write ``text`` (UTF-8) to ``path`` atomically and return the path."""
+    return write_bytes_atomic(path, text.encode("utf-8"))
+
+
 def write_json_atomic(path, data) -> Path:
     """Serialise ``data`` (plain Python values) as indented JSON, atomically."""
     return write_text_atomic(path, json.dumps(data, indent=2, allow_nan=False) + "\n")
+
+
+def write_figure(figure, path, *, dpi: int = 150) -> tuple:
+    """Write a matplotlib ``figure`` as ``<stem>.png`` and ``<stem>.svg``, each atomically.
+
+    Parameters
+    ----------
+    figure : matplotlib.figure.Figure
+    path : str or Path
+        File stem; a ``.png`` or ``.svg`` suffix is replaced.
+    dpi : int, optional
+        Resolution of the PNG.
+
+    Returns
+    -------
+    tuple of Path
+        (png path, svg path).
+    """
+    stem = Path(path)
+    if stem.suffix.lower() in (".png", ".svg"):
+        stem = stem.with_suffix("")
+    png, svg = stem.parent / (stem.name + ".png"), stem.parent / (stem.name + ".svg")
+    buffer = io.BytesIO()
+    figure.savefig(buffer, format="png", dpi=dpi)
+    write_bytes_atomic(png, buffer.getvalue())
+    text = io.StringIO()
+    figure.savefig(text, format="svg")
+    write_text_atomic(svg, text.getvalue())
+    return png, svg

@@ -17,11 +17,7 @@ Solid Surfaces, Wiley, 1996, from memory).
 
 from __future__ import annotations
 
-import io
-import os
-import tempfile
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Callable
 
 import numpy as np
@@ -29,7 +25,7 @@ import numpy as np
 from adsorb import constants
 from adsorb.coverage import CoverageSolution, pressures_for_coverage, site_coverages
 from adsorb.errors import InputError
-from adsorb.fileout import write_text_atomic
+from adsorb.fileout import write_figure
 
 __all__ = [
     "AdsorptionModel",
@@ -358,34 +354,6 @@ def isosteric_heat(model, coverage, temperature, *, relative_step=1e-3):
 _PRESSURE_UNITS = {"Pa": 1.0, "bar": constants.bar}
 
 
-def _write_bytes_atomic(path, data):
-    """Write bytes to ``path`` through a temporary sibling and a rename."""
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
-    try:
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(data)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
-    return path
-
-
-def _save(fig, path):
-    base = Path(path)
-    if base.suffix.lower() in (".png", ".svg"):
-        base = base.with_suffix("")
-    buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=150)
-    _write_bytes_atomic(base.with_suffix(".png"), buf.getvalue())
-    text = io.StringIO()
-    fig.savefig(text, format="svg")
-    write_text_atomic(base.with_suffix(".svg"), text.getvalue())
-
-
 def _new_figure(ncols=1, width=5.5, height=4.0):
     import matplotlib
 
@@ -460,7 +428,7 @@ def plot_isotherm(scan, path, *, species=None, pressure_unit="bar"):
     ax.set_ylabel("coverage θ / ML")
     ax.set_title(f"isotherm at T = {scan.temperature.flat[0]:.6g} K")
     ax.legend(loc="best", fontsize="small")
-    _save(fig, path)
+    write_figure(fig, path)
     return fig
 
 
@@ -478,7 +446,7 @@ def plot_isobar(scan, path, *, species=None):
     ax.set_ylabel("coverage θ / ML")
     ax.set_title(f"isobar at p = {scan.pressure.flat[0] / constants.bar:.6g} bar")
     ax.legend(loc="best", fontsize="small")
-    _save(fig, path)
+    write_figure(fig, path)
     return fig
 
 
@@ -501,5 +469,5 @@ def plot_coverage_map(scan, path, *, species=None, pressure_unit="bar"):
         ax.set_ylabel("temperature T / K")
         ax.set_title(scan.names[i])
         fig.colorbar(mesh, ax=ax, label="coverage θ / ML")
-    _save(fig, path)
+    write_figure(fig, path)
     return fig

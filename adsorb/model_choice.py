@@ -530,7 +530,7 @@ def plot_model_entropies(comparison: ModelComparison, path, *, title: str | None
     matplotlib.use("Agg")
     from matplotlib.figure import Figure
 
-    from adsorb.diagrams import write_figure
+    from adsorb.fileout import write_figure
 
     t = np.ravel(comparison.temperature)
     order = np.argsort(t, kind="stable")

@@ -4,7 +4,7 @@
 JSON-ready data (every number with its unit in the key name), documented in
 ``docs/report.md``; :func:`validate_results` checks a document against that
 structure. :func:`write_results` writes the whole folder (every file through
-:mod:`adsorb.fileout` or :func:`adsorb.diagrams.write_figure`, both atomic).
+:mod:`adsorb.fileout`, atomic).
 The HTML page is built by :mod:`adsorb.report_html`; plots by
 :mod:`adsorb.report_plots`.
 """

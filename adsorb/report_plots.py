@@ -1,4 +1,4 @@
-"""Plots of a study (PNG + SVG each, written atomically by :func:`adsorb.diagrams.write_figure`).
+"""Plots of a study (PNG + SVG each, written atomically by :func:`adsorb.fileout.write_figure`).
 
 matplotlib is imported inside the functions with the Agg backend. Each
 function returns the Figure; :func:`write_plots` returns
@@ -26,7 +26,7 @@ def _figure(size=(6.4, 4.4), layout=None):
 
 def plot_coverages(runs, path, *, title=""):
     """Coverage vs temperature of every species; line style = (fugacity, interactions) variant."""
-    from adsorb.diagrams import write_figure
+    from adsorb.fileout import write_figure
 
     fig = _figure()
     ax = fig.add_subplot()
@@ -51,7 +51,7 @@ def plot_coverages(runs, path, *, title=""):
 
 def plot_curve(run, path, *, title=""):
     """Isotherms (θ vs p of one gas, one line style per T) or a coverage map (one panel per species)."""
-    from adsorb.diagrams import write_figure
+    from adsorb.fileout import write_figure
 
     p_bar = np.asarray(run.pressure_Pa) / 1e5
     if run.kind == "isotherm":
