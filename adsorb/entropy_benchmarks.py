@@ -95,6 +95,8 @@ __all__ = [
     "arrhenius_peak",
     "published_peak_temperature",
     "alkane_benchmark",
+    "alkane_sensitivity",
+    "SENSITIVITY_KEYS",
     "conformer_ln_q",
     "markdown_site_table",
     "markdown_correlation_table",
@@ -102,6 +104,7 @@ __all__ = [
     "markdown_alkane_site_table",
     "markdown_alkane_table",
     "markdown_peak_table",
+    "markdown_sensitivity_table",
     "plot_correlation_benchmark",
     "plot_alkane_prefactors",
 ]
@@ -651,10 +654,12 @@ class AlkaneSite:
     translation_barrier_eV, rotation_barrier_eV : float
         Invented fractions of E_d (:data:`ALKANE_SURFACE`).
     site_spacing_A : float
+    rotation_minima : int
+        Minima per turn of the rotation about the normal.
     frequencies_cm : tuple
-        External modes: two translations and the rotation about the normal at
-        their barrier-implied frequencies, then the invented tilts and surface
-        stretch.
+        External modes by slot: two translations and the rotation about the
+        normal at their barrier-implied frequencies, then the two invented
+        tilts and the surface stretch.
     """
 
     n: int
@@ -669,28 +674,47 @@ class AlkaneSite:
     translation_barrier_eV: float
     rotation_barrier_eV: float
     site_spacing_A: float
+    rotation_minima: int
     frequencies_cm: tuple
 
 
-def alkane_site(n: int) -> AlkaneSite:
+def alkane_site(n: int, *, surface=None) -> AlkaneSite:
     """The n-alkane on the model MgO(100) surface (geometry, symmetry, invented barriers and modes).
+
+    Parameters
+    ----------
+    n : int
+        Carbon atoms (>= 1).
+    surface : mapping, optional
+        Values replacing entries of :data:`ALKANE_SURFACE` (same keys), e.g.
+        for a sensitivity study.
 
     Raises
     ------
     InputError
-        n not an integer >= 1.
-    AdsorbError
-        If an invented mode falls below a barrier-implied frequency.
+        n not an integer >= 1, or an unknown or non-positive ``surface`` entry.
     """
     from adsorb import geometry
 
     n = _chain_length(n)
+    surf = dict(ALKANE_SURFACE)
+    for key, value in dict(surface or {}).items():
+        if key not in ALKANE_SURFACE:
+            msg = f"alkane_site surface key {key!r} is unknown; expected one of {', '.join(ALKANE_SURFACE)}"
+            raise InputError(msg)
+        values = np.atleast_1d(np.asarray(value, dtype=float))
+        if values.shape != np.atleast_1d(ALKANE_SURFACE[key]).shape or not np.all(np.isfinite(values) & (values > 0)):
+            msg = f"alkane_site surface[{key!r}]: expected positive value(s) like {ALKANE_SURFACE[key]!r}, got {value!r}"
+            raise InputError(msg)
+        if key == "rotation_minima" and not float(values[0]).is_integer():
+            msg = f"alkane_site surface['rotation_minima']: expected a positive integer, got {value!r}"
+            raise InputError(msg)
+        surf[key] = tuple(float(v) for v in values) if isinstance(ALKANE_SURFACE[key], tuple) else float(values[0])
     atoms, source = alkane_atoms(n)
     moments, _ = geometry.principal_moments(atoms)
     mass = float(geometry.masses_amu(atoms).sum())
     sigma = int(geometry.rotational_symmetry_number(atoms))
     energy = C.from_kj_per_mol(TAIT_2005["energy_intercept_kJ_mol"] + TAIT_2005["energy_per_carbon_kJ_mol"] * n)
-    surf = ALKANE_SURFACE
     b = float(surf["site_spacing_A"])
     w_t = surf["translation_barrier_fraction"] * energy
     w_r = surf["rotation_barrier_fraction"] * energy
@@ -698,17 +722,14 @@ def alkane_site(n: int) -> AlkaneSite:
     nu_t = float(translator_frequency_cm(mass, w_t, b))
     nu_r = float(rotor_frequency_cm(inertia, w_r, surf["rotation_minima"]))
     others = tuple(surf["tilt_modes_cm"]) + (surf["surface_stretch_cm"],)
-    if min(others) <= max(nu_t, nu_r):
-        msg = (f"alkane n = {n}: the invented modes {others} cm^-1 must exceed the barrier-implied "
-               f"frequencies {nu_t:.3g} and {nu_r:.3g} cm^-1")
-        raise AdsorbError(msg)
     return AlkaneSite(
         n=n, formula=str(atoms.get_chemical_formula(mode="hill")), geometry_source=source, mass_amu=mass,
         external_symmetry_number=sigma,
         rotational_constants_cm=np.asarray(geometry.rotational_constants_cm(moments), dtype=float),
         normal_symmetry_number=2 if (n <= 2 or n % 2 == 0) else 1, inertia_normal_amu_A2=inertia,
         desorption_energy_eV=float(energy), translation_barrier_eV=float(w_t), rotation_barrier_eV=float(w_r),
-        site_spacing_A=b, frequencies_cm=(nu_t, nu_t, nu_r) + others)
+        site_spacing_A=b, rotation_minima=int(round(surf["rotation_minima"])),
+        frequencies_cm=(nu_t, nu_t, nu_r) + others)
 
 
 def transition_state(site: AlkaneSite, temperature) -> Contribution:
@@ -772,7 +793,7 @@ def adsorbate_contribution(site: AlkaneSite, model: str, temperature) -> Contrib
         one = periodic.lattice_translator(t, site.mass_amu, site.site_spacing_A,
                                           periodic.cosine_terms(site.translation_barrier_eV))
         rotor = periodic.ring_rotor(t, site.inertia_normal_amu_A2,
-                                    periodic.cosine_terms(site.rotation_barrier_eV, ALKANE_SURFACE["rotation_minima"]),
+                                    periodic.cosine_terms(site.rotation_barrier_eV, site.rotation_minima),
                                     symmetry_number=site.normal_symmetry_number)
         return one + one + rotor + harmonic(t, nu[3:])
     if model == "2d-gas":
@@ -780,7 +801,7 @@ def adsorbate_contribution(site: AlkaneSite, model: str, temperature) -> Contrib
     if model == "2d-gas+free-rotor":
         return (translation_2d(t, site.mass_amu, area)
                 + free_rotor(t, site.inertia_normal_amu_A2, site.normal_symmetry_number) + harmonic(t, nu[3:]))
-    return transition_state(site, t) + harmonic(t, [ALKANE_SURFACE["surface_stretch_cm"]])
+    return transition_state(site, t) + harmonic(t, [nu[5]])
 
 
 def desorption_prefactor(site: AlkaneSite, model: str, temperature, *, extra_ln_q=None):
@@ -983,6 +1004,47 @@ def alkane_benchmark(chain_lengths=ALKANE_CHAIN_LENGTHS, *, models=ALKANE_MODELS
     return rows
 
 
+#: Invented inputs varied by :func:`alkane_sensitivity`.
+SENSITIVITY_KEYS = ("translation_barrier_fraction", "rotation_barrier_fraction", "tilt_modes_cm",
+                    "surface_stretch_cm", "site_spacing_A")
+
+
+def alkane_sensitivity(chain_lengths=(1, 10), *, models=("harmonic", "hindered"), factors=(0.5, 2.0)) -> list[dict]:
+    """Change of log10 A(Tp) when one input of :data:`ALKANE_SURFACE` is scaled.
+
+    Parameters
+    ----------
+    chain_lengths : sequence of int, optional
+    models : sequence of str, optional
+        Subset of :data:`ALKANE_MODELS`.
+    factors : sequence of float, optional
+        Multipliers applied to one entry at a time (default 0.5 and 2).
+
+    Returns
+    -------
+    list of dict
+        ``parameter``, ``factor`` and, for each (n, model), the key
+        ``f"{n}:{model}"`` with log10 A(scaled) − log10 A(default).
+    """
+    for m in models:
+        if m not in ALKANE_MODELS:
+            msg = f"alkane_sensitivity models: {m!r} is unknown; expected among {', '.join(ALKANE_MODELS)}"
+            raise InputError(msg)
+    base = {(n, m): arrhenius_peak(alkane_site(n), m)["log10_arrhenius"] for n in chain_lengths for m in models}
+    rows = []
+    for key in SENSITIVITY_KEYS:
+        for factor in factors:
+            value = ALKANE_SURFACE[key]
+            scaled = tuple(factor * v for v in value) if isinstance(value, tuple) else factor * value
+            row = {"parameter": key, "factor": float(factor)}
+            for n in chain_lengths:
+                site = alkane_site(n, surface={key: scaled})
+                for m in models:
+                    row[f"{n}:{m}"] = arrhenius_peak(site, m)["log10_arrhenius"] - base[(n, m)]
+            rows.append(row)
+    return rows
+
+
 # ===========================================================================
 # tables (Markdown) and figures
 # ===========================================================================
@@ -993,6 +1055,7 @@ def _md(header, rows):
 
 
 def _signed(value, digits):
+    value = 0.0 if round(value, digits) == 0 else value
     text = f"{value:.{digits}f}"
     return text.replace("-", "−")
 
@@ -1079,6 +1142,14 @@ def markdown_peak_table(rows) -> str:
     return _md(["N", "Tp (published ν, E_d) / K"] + [f"{m}: Tp / log10 ν / γ" for m in models], out)
 
 
+def markdown_sensitivity_table(rows) -> str:
+    """Δlog10 A for each scaled input (columns: chain length and model)."""
+    keys = [k for k in rows[0] if k not in ("parameter", "factor")]
+    out = [[r["parameter"], f"× {r['factor']:g}"] + [_signed(r[k], 2) for k in keys] for r in rows]
+    header = ["input scaled", "factor"] + [f"N = {k.split(':')[0]}, {k.split(':')[1]}" for k in keys]
+    return _md(header, out)
+
+
 _MODEL_STYLE = {
     "harmonic": ("o", "C0"), "hindered": ("s", "C1"), "2d-gas": ("^", "C2"), "2d-gas+free-rotor": ("D", "C3"),
     "2d-gas+free-3d-rotor": ("v", "C4"),
@@ -1088,7 +1159,7 @@ _MODEL_STYLE = {
 def plot_correlation_benchmark(rows, path, *, title=None):
     """Adsorbate S° of each model against S°_gas, with the Campbell–Sellers line and its ±2R band.
 
-    Writes ``<path>.png`` and ``<path>.svg`` (:func:`adsorb.diagrams.write_figure`).
+    Writes ``<path>.png`` and ``<path>.svg`` (:func:`adsorb.fileout.write_figure`).
 
     Parameters
     ----------
@@ -1109,7 +1180,7 @@ def plot_correlation_benchmark(rows, path, *, title=None):
     matplotlib.use("Agg")
     from matplotlib.figure import Figure
 
-    from adsorb.diagrams import write_figure
+    from adsorb.fileout import write_figure
     from adsorb.model_choice import CORRELATION_OFFSET_R, CORRELATION_SLOPE, campbell_sellers_entropy
 
     fig = Figure(figsize=(7.0, 5.2))
@@ -1164,7 +1235,7 @@ def plot_alkane_prefactors(rows, path, *, title=None):
     matplotlib.use("Agg")
     from matplotlib.figure import Figure
 
-    from adsorb.diagrams import write_figure
+    from adsorb.fileout import write_figure
 
     fig = Figure(figsize=(6.8, 4.8))
     ax = fig.add_subplot()
