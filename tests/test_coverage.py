@@ -6,7 +6,7 @@ Sources of the reference facts used below:
   Niemantsverdriet, Concepts of Modern Catalysis and Kinetics, Wiley-VCH 2003 (from memory).
 * Mean-field (Bragg–Williams / Fowler–Guggenheim) lattice gas with attraction: critical
   point kT_c = -ε/4 at θ = 1/2 (Fowler & Guggenheim, Statistical Thermodynamics, 1939,
-  from memory; also derived in /work/shared/reference/adsorbate-models.md §6).
+  from memory; also derived in the maintainers' reference compilation adsorbate-models.md §6).
 * Independent numerical references: scipy.optimize.brentq and scipy.optimize.root.
 """
 

@@ -1,7 +1,7 @@
 """Tests of adsorb.nasa: two-range NASA 7-coefficient fits with exact continuity constraints.
 
 Sources: McBride, Gordon, Reno, NASA TM-4513 (1993) for the polynomial form; molecular constants and
-JANAF values from /work/shared/reference/gas-reference-data.md (NIST-JANAF 4th ed., Chase 1998;
+JANAF values from the maintainers' reference compilation gas-reference-data.md (NIST-JANAF 4th ed., Chase 1998;
 CCCBDB; Huber & Herzberg and Shimanouchi, several from memory as marked there); RRHO building blocks of
 adsorb.partition (another module's job; here only their output is fitted).
 """
