@@ -51,8 +51,9 @@ Simplifications of (b), stated once here and in docs/entropy-benchmarks.md:
 
 Geometry: ``ase.build.molecule`` (the G2 set) for CH4, C2H6, C3H8 and
 trans-butane; a zig-zag all-trans chain built here (:func:`zigzag_alkane`)
-for hexane, octane and decane. ASE is imported only inside the two functions
-that build structures.
+for hexane, octane and decane. ASE is imported only inside the functions that
+build structures (:func:`benchmark_gas`, :func:`zigzag_alkane`,
+:func:`alkane_atoms`).
 """
 
 from __future__ import annotations
@@ -109,7 +110,6 @@ __all__ = [
     "plot_alkane_prefactors",
 ]
 
-J_MOL_K = C.EV_PER_K_TO_J_MOL_K
 _COMPILATION = "gas-reference-data compilation of this project"
 #: I [amu Å^2] = _INERTIA_FACTOR / B [cm^-1], from B = h / (8 π^2 c I) (Herzberg's definition)
 _INERTIA_FACTOR = C.h / (8.0 * C.pi**2 * C.c * 100.0 * C.amu_A2)

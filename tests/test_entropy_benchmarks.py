@@ -24,7 +24,6 @@ import pytest
 import scipy.constants as sc
 from ase.build import molecule
 
-from adsorb import constants as C
 from adsorb import entropy_benchmarks as eb
 from adsorb import tpd
 from adsorb.adsorbate import Adsorbate
