@@ -47,7 +47,7 @@ def write_json_atomic(path, data) -> Path:
     return write_text_atomic(path, json.dumps(data, indent=2, allow_nan=False) + "\n")
 
 
-def write_figure(figure, path, *, dpi: int = 150) -> tuple:
+def write_figure(figure, path, *, dpi: int = 150, tight: bool = False) -> tuple:
     """Write a matplotlib ``figure`` as ``<stem>.png`` and ``<stem>.svg``, each atomically.
 
     Parameters
@@ -57,6 +57,8 @@ def write_figure(figure, path, *, dpi: int = 150) -> tuple:
         File stem; a ``.png`` or ``.svg`` suffix is replaced.
     dpi : int, optional
         Resolution of the PNG.
+    tight : bool, optional
+        Crop to the drawn content (matplotlib's ``bbox_inches="tight"``).
 
     Returns
     -------
@@ -67,10 +69,11 @@ def write_figure(figure, path, *, dpi: int = 150) -> tuple:
     if stem.suffix.lower() in (".png", ".svg"):
         stem = stem.with_suffix("")
     png, svg = stem.parent / (stem.name + ".png"), stem.parent / (stem.name + ".svg")
+    extra = {"bbox_inches": "tight"} if tight else {}
     buffer = io.BytesIO()
-    figure.savefig(buffer, format="png", dpi=dpi)
+    figure.savefig(buffer, format="png", dpi=dpi, **extra)
     write_bytes_atomic(png, buffer.getvalue())
     text = io.StringIO()
-    figure.savefig(text, format="svg")
+    figure.savefig(text, format="svg", **extra)
     write_text_atomic(svg, text.getvalue())
     return png, svg

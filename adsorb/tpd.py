@@ -40,10 +40,7 @@ from __future__ import annotations
 
 import csv
 import io
-import os
-import tempfile
 from dataclasses import dataclass, field
-from pathlib import Path
 
 import numpy as np
 import scipy.integrate
@@ -643,19 +640,9 @@ def simulate_tpd(initial_coverage, heating_rate_K_s, *, prefactor, energy_eV, or
 # plot
 # ---------------------------------------------------------------------------
 def _save_figure(fig, path):
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    for suffix in (".png", ".svg"):
-        target = path.with_suffix(suffix)
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", dir=target.parent)
-        os.close(fd)
-        try:
-            fig.savefig(tmp, format=suffix[1:], dpi=150, bbox_inches="tight")
-            os.replace(tmp, target)
-        except BaseException:
-            if os.path.exists(tmp):
-                os.unlink(tmp)
-            raise
+    from adsorb.fileout import write_figure
+
+    write_figure(fig, path, tight=True)
 
 
 def plot_tpd(results, path, *, labels=None, title=None, mark_peaks=True):

@@ -42,11 +42,8 @@ whose height above V_min is the zero-point energy).
 from __future__ import annotations
 
 import itertools
-import os
-import tempfile
 import time
 from dataclasses import dataclass, field, replace
-from pathlib import Path
 
 import numpy as np
 import scipy.linalg
@@ -1257,22 +1254,9 @@ def lateral_quantum(temperature, pes: SurfacePES, mass_amu, *, rtol=1e-6) -> Con
 # ---------------------------------------------------------------------------
 def _save_figure(fig, path):
     """Write PNG and SVG next to ``path`` (suffix replaced), each atomically; return the two paths."""
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    written = []
-    for suffix in (".png", ".svg"):
-        target = path.with_suffix(suffix)
-        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", dir=target.parent)
-        os.close(fd)
-        try:
-            fig.savefig(tmp, format=suffix[1:], dpi=150, bbox_inches="tight")
-            os.replace(tmp, target)
-        except BaseException:
-            if os.path.exists(tmp):
-                os.unlink(tmp)
-            raise
-        written.append(target)
-    return written
+    from adsorb.fileout import write_figure
+
+    return list(write_figure(fig, path, tight=True))
 
 
 def plot_surface(pes: SurfacePES, path, *, n_cells=3, resolution=60, title=None):
