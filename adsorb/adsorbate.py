@@ -71,6 +71,7 @@ _PARAMETERS = {
     "symmetry_number": "rotational symmetry number about the normal (hindered; default 1)",
     "inertia": "moment of inertia about the surface normal in amu Å^2 (default: from `atoms`)",
     "mode_vectors": "normal-mode displacement vectors, shape (n_modes, n_adsorbate_atoms, 3)",
+    "soft_modes": "indices of the modes to replace: the translations first, then the rotation",
     "imaginary_modes": "'raise' (default), 'drop' or 'invert' for negative (imaginary) frequencies",
     "low_frequency": "'none' (default), 'floor' or 'qrrho' for the modes that stay harmonic",
     "frequency_floor": "floor in cm^-1 for low_frequency='floor' and cut-off for 'qrrho' (default 100)",
@@ -136,6 +137,8 @@ class Adsorbate:
         ``symmetry_number``     symmetry number about the normal (default 1)
         ``inertia``             moment about the normal, amu Å^2
         ``mode_vectors``        normal modes, (n_modes, n_adsorbate_atoms, 3)
+        ``soft_modes``          explicit indices of the replaced modes
+                                (translations first, then the rotation)
         ``imaginary_modes``     'raise' | 'drop' | 'invert'
         ``low_frequency``       'none' | 'floor' | 'qrrho' (harmonic modes)
         ``frequency_floor``     cm^-1 (default 100)
@@ -188,7 +191,7 @@ class Adsorbate:
             raise InputError(msg)
         self._setup_model(p)
         self.frequencies = nu
-        self.replaced_modes = self._assign_modes(nu, p.get("mode_vectors"))
+        self.replaced_modes = self._assign_modes(nu, p.get("mode_vectors"), p.get("soft_modes"))
         replaced = {m["index"] for m in self.replaced_modes}
         self.harmonic_frequencies = np.array([f for i, f in enumerate(nu) if i not in replaced])
 
@@ -324,7 +327,7 @@ class Adsorbate:
             return {"translation": 0.0 if self.model == "2d-gas" else None}
         return {}
 
-    def _assign_modes(self, nu, mode_vectors):
+    def _assign_modes(self, nu, mode_vectors, soft_modes=None):
         n_trans, n_rot = MODELS[self.model]
         if self.model == "hindered" and not self._has_rotor:
             n_rot = 0
@@ -337,7 +340,23 @@ class Adsorbate:
             raise InputError(msg)
         from adsorb import geometry
 
-        if mode_vectors is not None:
+        if soft_modes is not None:
+            if mode_vectors is not None:
+                msg = "Adsorbate parameters 'soft_modes' and 'mode_vectors': give one, not both"
+                raise InputError(msg)
+            try:
+                given = [int(i) for i in soft_modes]
+            except (TypeError, ValueError):
+                msg = f"Adsorbate parameter 'soft_modes': expected {n_replace} mode indices, got {soft_modes!r}"
+                raise InputError(msg) from None
+            if (len(given) != n_replace or len(set(given)) != n_replace
+                    or any(i < 0 or i >= nu.size for i in given)):
+                msg = (f"Adsorbate parameter 'soft_modes': expected {n_replace} distinct indices in 0..{nu.size - 1} "
+                       f"(translations first, then the rotation), got {list(soft_modes)!r}")
+                raise InputError(msg)
+            translations, rotations = given[:n_trans], given[n_trans:]
+            how = "given by the user"
+        elif mode_vectors is not None:
             if self.atoms is None:
                 msg = "Adsorbate parameter 'mode_vectors' needs `atoms` (to know masses and the surface normal)"
                 raise InputError(msg)

@@ -292,3 +292,15 @@ def test_surface_pes_model_replaces_the_two_translations():
     assert ads.thermo(t).choices["mobile"] is True
     with pytest.raises(InputError, match="pes"):
         Adsorbate(FREQS, 0.0, "surface-pes", mass=CO_MASS)
+
+
+def test_soft_modes_given_explicitly():
+    # when the mode normal to the surface is the softest, the user names the in-plane modes (design rule)
+    freqs = [30.0, 60.0, 65.0, 90.0, 400.0, 2000.0]
+    ads = Adsorbate(freqs, 0.0, "hindered", soft_modes=[1, 2, 3], **HINDERED)
+    assert [m["index"] for m in ads.replaced_modes] == [1, 2, 3]
+    assert ads.replaced_modes[0]["assigned_by"] == "given by the user"
+    np.testing.assert_array_equal(ads.harmonic_frequencies, [30.0, 400.0, 2000.0])
+    for bad in ([1, 2], [1, 1, 2], [1, 2, 9]):
+        with pytest.raises(InputError, match="soft_modes"):
+            Adsorbate(freqs, 0.0, "hindered", soft_modes=bad, **HINDERED)
