@@ -78,7 +78,7 @@ GAS_TABLE = {
     "H2O": (188.834, 0.2),    # NIST-JANAF H-064
     "NH3": (192.774, 0.5),    # NIST-JANAF H-083
     "CH4": (186.251, 0.1),    # NIST-JANAF C-067
-    "C2H6": (229.16, 1.0),    # Gurvich et al. 1989-91 via NIST CCCBDB
+    "C2H6": (229.16, 0.15),   # Gurvich et al. 1989-91 via NIST CCCBDB; torsion as hindered rotor (tests/test_torsion.py)
 }
 
 
