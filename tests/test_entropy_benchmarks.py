@@ -93,7 +93,7 @@ def test_every_benchmark_gas_has_an_invented_site():
     assert set(eb.GAS_DATA) == set(eb.INVENTED_SITES) == set(GAS_TABLE)
     for site in eb.INVENTED_SITES.values():
         assert "invented" in site.orientation      # the labelling rule of the project
-        assert 2.5 <= site.site_spacing_A <= 3.0     # the brief's range
+        assert 2.5 <= site.site_spacing_A <= 3.0     # the range chosen for the invented sites
 
 
 @pytest.mark.parametrize("name", sorted(GAS_TABLE))
