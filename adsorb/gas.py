@@ -33,7 +33,7 @@ from adsorb.partition.translation import translation_3d
 from adsorb.partition.vibration import harmonic
 from adsorb.thermo import ThermoTable, assemble
 
-__all__ = ["GasMolecule", "Torsion", "torsion_moments", "ROTORS", "IMAGINARY_POLICIES", "TORSION_SOLVERS",
+__all__ = ["GasMolecule", "Torsion", "ROTORS", "IMAGINARY_POLICIES", "TORSION_SOLVERS",
            "REDUCED_MOMENTS"]
 
 ROTORS = ("auto", "classical", "levels")
@@ -112,29 +112,10 @@ REDUCED_MOMENTS = ("two-top", "coupled")
 
 #: a mode chosen by its wavenumber must lie this close to the value given (cm^-1)
 MODE_MATCH_CM = 1.0
-#: bond criterion of the torsion geometry: d <= factor * (r_cov,i + r_cov,j)
-BOND_FACTOR = 1.2
-#: a top (or the rest) with a smaller moment about the axis lies on the axis (amu Å^2)
-_MIN_MOMENT = 1e-6
 
 
 def _is_integer(value):
     return isinstance(value, (int, np.integer)) and not isinstance(value, (bool, np.bool_))
-
-
-def _index_tuple(label, value, *, length=None):
-    """A tuple of non-negative ints, else InputError naming ``label``."""
-    try:
-        items = tuple(value)
-    except TypeError:
-        raise InputError(f"{label}: expected a sequence of atom indices, got {value!r}") from None
-    if not items or not all(_is_integer(i) and int(i) >= 0 for i in items):
-        raise InputError(f"{label}: expected non-negative integer atom indices, got {value!r}")
-    if length is not None and len(items) != length:
-        raise InputError(f"{label}: expected {length} atom indices, got {len(items)} ({value!r})")
-    if len(set(int(i) for i in items)) != len(items):
-        raise InputError(f"{label}: atom indices must be distinct, got {value!r}")
-    return tuple(int(i) for i in items)
 
 
 def _barrier_order(key):
@@ -211,7 +192,8 @@ class Torsion:
     axis : (int, int), optional
         The two atoms defining the rotation axis, one in the top and one in
         the rest. Default: the single bond joining the top to the rest
-        (bonds: d <= 1.2 (r_i + r_j), covalent radii of ``ase.data``).
+        (:func:`adsorb.geometry.torsion_axis`; bonds from
+        :func:`adsorb.geometry.bond_matrix`).
     inertia_amu_A2 : float, optional
         Reduced moment of inertia in amu Å^2, used instead of the geometry.
     reduced_moment : {'two-top', 'coupled'}, optional
@@ -220,7 +202,7 @@ class Torsion:
         the two groups about the axis. 'coupled': the internal-rotation
         moment with the overall rotation and translation eliminated,
         I_red = I_top - |P|^2/M - L·I^-1·L (Pitzer 1946 type; see
-        :func:`torsion_moments`).
+        :func:`adsorb.geometry.torsion_moments`).
     mode : int, float or 'lowest', optional
         The harmonic mode replaced: an int is an index into the
         ``frequencies`` list as given to :class:`GasMolecule` (0-based); a
@@ -266,9 +248,9 @@ class Torsion:
             put("barriers_eV", _barrier_terms("Torsion barriers_eV", self.barriers_eV))
         put("symmetry_number", _positive_int("Torsion symmetry_number", self.symmetry_number, owner=""))
         if self.top is not None:
-            put("top", _index_tuple("Torsion top", self.top))
+            put("top", geometry.atom_indices(self.top, name="Torsion top"))
         if self.axis is not None:
-            put("axis", _index_tuple("Torsion axis", self.axis, length=2))
+            put("axis", geometry.atom_indices(self.axis, length=2, name="Torsion axis"))
         if self.inertia_amu_A2 is not None:
             put("inertia_amu_A2", _number("Torsion inertia_amu_A2", self.inertia_amu_A2, owner=""))
         if self.top is None and self.inertia_amu_A2 is None:
@@ -314,172 +296,6 @@ class Torsion:
         unit, terms = ("cm^-1", self.barriers_cm) if self.barriers_cm is not None else ("eV", self.barriers_eV)
         parts = [f"V{n} = {v:g}" for n, v in enumerate(terms, start=1) if v != 0]
         return (", ".join(parts) or "all V_n = 0") + f" {unit}"
-
-
-def _bond_matrix(atoms, positions):
-    """Boolean bond matrix: d_ij <= BOND_FACTOR (r_i + r_j) with ASE's covalent radii (Cordero et al. 2008)."""
-    from ase.data import covalent_radii      # the only ASE table used here; ASE is already the input type
-
-    radii = np.asarray(covalent_radii)[np.asarray(atoms.numbers)]
-    d = np.linalg.norm(positions[:, None, :] - positions[None, :, :], axis=-1)
-    bonded = d <= BOND_FACTOR * (radii[:, None] + radii[None, :])
-    np.fill_diagonal(bonded, False)
-    return bonded
-
-
-def _connected(adjacency):
-    seen, stack = {0}, [0]
-    while stack:
-        i = stack.pop()
-        for j in np.flatnonzero(adjacency[i]):
-            if int(j) not in seen:
-                seen.add(int(j))
-                stack.append(int(j))
-    return len(seen) == adjacency.shape[0]
-
-
-def _rotate(vectors, axis, angle):
-    """Rodrigues rotation of row vectors about the unit ``axis``."""
-    k = axis
-    cos, sin = np.cos(angle), np.sin(angle)
-    return vectors * cos + np.cross(k, vectors) * sin + np.outer(vectors @ k, k) * (1.0 - cos)
-
-
-def torsion_moments(atoms, top, axis=None, *, symmetry_number=1, symmetry_tolerance=0.05, label="torsion"):
-    """Moments of inertia of a rotating group about its bond axis.
-
-    The axis is the line through the top's atom ``a`` and the rest's atom
-    ``b`` joined by a bond (or given). With r_perp,i the distance of atom i
-    from that line (common practice):
-
-    * I_top  = sum_{i in top} m_i r_perp,i^2,  I_rest = sum_{i not in top} m_i r_perp,i^2;
-    * two-top reduced moment: I_red = I_top I_rest / (I_top + I_rest), the
-      relative rotation of two rigid groups about their common axis with zero
-      total angular momentum about it (Pitzer & Gwinn, J. Chem. Phys. 10,
-      428 (1942); Pitzer, J. Chem. Phys. 14, 239 (1946), from memory).
-    * coupled reduced moment: the top turning at unit rate moves its atoms
-      with w_i = e x (r_i - r_a); with P = sum m_i w_i, L = sum m_i
-      (r_i - R_cm) x w_i and the inertia tensor I of the whole molecule about
-      its centre of mass, I_coupled = I_top - |P|^2/M - L·I^-1·L, the Schur
-      complement of the overall translation and rotation in the classical
-      kinetic-energy matrix (the moment that multiplies det I in the classical
-      phase integral; Pitzer 1946's reduced moment for a rigid top, from
-      memory). It equals the two-top value when e is a principal axis of the
-      molecule through its centre of mass and of the top, and the top's
-      centre of mass lies on e (ethane).
-
-    Parameters
-    ----------
-    atoms : ase.Atoms
-        The molecule (a molecule split by periodic wrapping is joined first).
-    top : sequence of int
-        Atoms of the rotating group, including its atom on the axis.
-    axis : (int, int), optional
-        One atom in the top, one not; default the single bond joining them
-        (d <= 1.2 (r_i + r_j), covalent radii of ``ase.data``).
-    symmetry_number : int, optional
-        σ_int. When > 1, the atoms of the top farther than
-        ``symmetry_tolerance`` from the axis must come in sets of σ_int atoms
-        of the same element and mass (else InputError); how far the top is
-        from mapping onto itself after a turn of 2π/σ_int about the axis is
-        returned as ``symmetry_deviation_A`` (a real methyl group is often
-        tilted by a few degrees from the bond: 0.12 Å in ASE's methanol).
-    symmetry_tolerance : float, optional
-        Å; default 0.05.
-    label : str, optional
-        Prefix of error messages.
-
-    Returns
-    -------
-    dict
-        ``top``, ``rest`` (index lists), ``axis_atoms`` [a, b],
-        ``inertia_top_amu_A2``, ``inertia_rest_amu_A2``,
-        ``two_top_amu_A2``, ``coupled_amu_A2`` (amu Å^2) and
-        ``symmetry_deviation_A`` (Å; 0 when σ_int = 1).
-
-    Raises
-    ------
-    InputError
-        Indices out of range, a top that is not one bonded group joined to
-        the rest by exactly one bond (when ``axis`` is not given), an axis not
-        joining the top to the rest, a group lying on the axis, or off-axis
-        atoms that do not come in sets of σ_int.
-    """
-    n_atoms = len(atoms)
-    top = list(_index_tuple(f"{label} top", top))
-    if max(top) >= n_atoms:
-        raise InputError(f"{label} top: atom index {max(top)} out of range for {n_atoms} atoms")
-    if len(top) >= n_atoms:
-        raise InputError(f"{label} top: the top {top} holds every atom; the rest of the molecule must not be empty")
-    masses = geometry.masses_amu(atoms)
-    pos = geometry.unwrapped_positions(atoms)
-    in_top = np.zeros(n_atoms, dtype=bool)
-    in_top[top] = True
-    rest = [int(i) for i in np.flatnonzero(~in_top)]
-    bonds = _bond_matrix(atoms, pos)
-    if not _connected(bonds[np.ix_(top, top)]):
-        raise InputError(f"{label} top: atoms {top} do not form one bonded group (bond: d <= {BOND_FACTOR:g} "
-                         f"x sum of covalent radii)")
-    if axis is None:
-        joins = [(top[i], rest[j]) for i, j in np.argwhere(bonds[np.ix_(top, rest)])]
-        if len(joins) != 1:
-            raise InputError(f"{label} top: atoms {top} are joined to the rest of the molecule by {len(joins)} "
-                             f"bonds {[list(p) for p in joins]}; a rotating group is joined by exactly one bond "
-                             "(or give axis=(i, j))")
-        a, b = joins[0]
-    else:
-        pair = _index_tuple(f"{label} axis", axis, length=2)
-        if max(pair) >= n_atoms:
-            raise InputError(f"{label} axis: atom index {max(pair)} out of range for {n_atoms} atoms")
-        if in_top[pair[0]] == in_top[pair[1]]:
-            raise InputError(f"{label} axis: expected one atom of the top {top} and one of the rest, got {list(pair)}")
-        a, b = pair if in_top[pair[0]] else pair[::-1]
-    bond = pos[b] - pos[a]
-    length = float(np.linalg.norm(bond))
-    if length < 1e-8:
-        raise InputError(f"{label} axis: atoms {a} and {b} coincide; no axis")
-    e = bond / length
-    rel = pos - pos[a]
-    perp = rel - np.outer(rel @ e, e)
-    d2 = np.einsum("ij,ij->i", perp, perp)
-    i_top, i_rest = float(masses[in_top] @ d2[in_top]), float(masses[~in_top] @ d2[~in_top])
-    for what, value, group in (("top", i_top, top), ("rest", i_rest, rest)):
-        if value < _MIN_MOMENT:
-            raise InputError(f"{label} top: the {what} (atoms {group}) lies on the axis {a}-{b} "
-                             f"(moment {value:.3g} amu Å^2); nothing rotates")
-    sigma = _positive_int(f"{label} symmetry_number", symmetry_number, owner="")
-    deviation = 0.0
-    if sigma > 1:
-        # hard check: the off-axis atoms of each kind (element, mass) come in sets of sigma
-        off = [i for i in top if np.sqrt(d2[i]) > symmetry_tolerance]
-        kinds = {}
-        for i in off:
-            key = (atoms[i].symbol, round(float(masses[i]), 3))
-            kinds[key] = kinds.get(key, 0) + 1
-        odd = {f"{sym} ({m:g} amu)": n for (sym, m), n in kinds.items() if n % sigma}
-        if not off or odd:
-            raise InputError(f"{label} symmetry_number: sigma_int = {sigma} needs the off-axis atoms of the top "
-                             f"{top} in sets of {sigma} equivalent atoms, got "
-                             f"{odd or 'no off-axis atoms'}")
-        # soft check: how far the top is from mapping onto itself after a turn of 2 pi / sigma
-        turned = pos[a] + _rotate(rel[top], e, 2.0 * C.pi / sigma)
-        numbers = np.asarray(atoms.numbers)[top]
-        d = np.linalg.norm(turned[:, None, :] - pos[top][None, :, :], axis=-1)
-        d[numbers[:, None] != numbers[None, :]] = np.inf
-        deviation = float(d.min(axis=1).max())
-    # coupled moment: eliminate overall translation and rotation (Schur complement)
-    w = np.where(in_top[:, None], np.cross(e, rel), 0.0)
-    total = float(masses.sum())
-    com = masses @ pos / total
-    r = pos - com
-    momentum = masses @ w
-    angular = np.einsum("i,ij->j", masses, np.cross(r, w))
-    tensor = np.eye(3) * float(masses @ np.einsum("ij,ij->i", r, r)) - np.einsum("i,ij,ik->jk", masses, r, r)
-    coupled = i_top - float(momentum @ momentum) / total - float(angular @ np.linalg.solve(tensor, angular))
-    return {"top": top, "rest": rest, "axis_atoms": [int(a), int(b)],
-            "inertia_top_amu_A2": i_top, "inertia_rest_amu_A2": i_rest,
-            "two_top_amu_A2": i_top * i_rest / (i_top + i_rest), "coupled_amu_A2": float(coupled),
-            "symmetry_deviation_A": deviation}
 
 
 def _potential_shape(terms_eV, inertia_amu_A2):
@@ -841,8 +657,9 @@ class GasMolecule:
                                  f"got {type(item).__name__}")
             entry = {"symmetry_number": item.symmetry_number, "solver": item.solver}
             if item.top is not None:
-                moments = torsion_moments(self.atoms, item.top, item.axis, symmetry_number=item.symmetry_number,
-                                          symmetry_tolerance=symmetry_tolerance, label=label)
+                moments = geometry.torsion_moments(self.atoms, item.top, item.axis,
+                                                   symmetry_number=item.symmetry_number,
+                                                   symmetry_tolerance=symmetry_tolerance, label=label)
                 entry.update(top_atoms=moments["top"], axis_atoms=moments["axis_atoms"],
                              inertia_top_amu_A2=moments["inertia_top_amu_A2"],
                              inertia_rest_amu_A2=moments["inertia_rest_amu_A2"],
@@ -859,7 +676,7 @@ class GasMolecule:
                 inertia, source = moments["two_top_amu_A2"], "two-top: I_top I_rest / (I_top + I_rest)"
             else:
                 inertia, source = moments["coupled_amu_A2"], "coupled: I_top - |P|^2/M - L.I^-1.L"
-                if not inertia > _MIN_MOMENT:
+                if not inertia > geometry.ON_AXIS_MOMENT_AMU_A2:
                     raise InputError(f"{label} reduced_moment: the coupled reduced moment is {inertia:.3g} amu Å^2; "
                                      "expected > 0")
             height, n_min, nu_min = _potential_shape(item.terms_eV, inertia)

@@ -817,3 +817,135 @@ def test_overlaps_are_bounded_for_any_modes(seed, n_atoms):
         assert rot_total == pytest.approx(1.0, rel=1e-8)
     else:
         assert rot_total == 0.0
+
+
+# ---------------------------------------------------------------------------
+# atom indices, bonds and torsions
+# ---------------------------------------------------------------------------
+
+from adsorb.geometry import atom_indices, bond_matrix, torsion_axis, torsion_moments  # noqa: E402
+
+
+def test_atom_indices_accepts_sequences_and_arrays():
+    assert atom_indices([3, 1, 2]) == (3, 1, 2)
+    assert atom_indices(np.array([0, 5]), n_atoms=6, length=2) == (0, 5)
+
+
+@pytest.mark.parametrize(("value", "options", "match"), [
+    (5, {}, "expected a sequence"),
+    ([], {}, "non-empty"),
+    ([1.0], {}, "integers"),
+    ([True], {}, "integers"),
+    ([-1], {}, "non-negative"),
+    ([0, 6], {"n_atoms": 6}, "between 0 and 5"),
+    ([1, 1], {}, "repeated"),
+    ([1, 2, 3], {"length": 2}, "expected 2 atom indices"),
+])
+def test_atom_indices_bad(value, options, match):
+    with pytest.raises(InputError, match=match) as info:
+        atom_indices(value, name="top", **options)
+    assert str(info.value).startswith("top:") and "\n" not in str(info.value)
+
+
+@pytest.mark.parametrize(("name", "n_bonds"), [("C2H6", 7), ("CH3CH2OH", 8), ("C6H6", 12), ("H2O2", 3)])
+def test_bond_matrix_counts_the_bonds_of_the_structural_formula(name, n_bonds):
+    # bond counts of the structural formulas (common practice)
+    bonds = bond_matrix(molecule(name))
+    assert bonds.shape == (len(molecule(name)),) * 2
+    assert np.array_equal(bonds, bonds.T) and not bonds.diagonal().any()
+    assert int(bonds.sum()) // 2 == n_bonds
+    assert not bond_matrix(molecule(name), factor=0.5).any()
+
+
+def test_bond_matrix_of_a_wrapped_molecule():
+    atoms = molecule("CH3CH2OH")
+    wrapped = atoms.copy()
+    wrapped.set_cell([8.0, 8.0, 8.0])
+    wrapped.pbc = True
+    wrapped.wrap()
+    assert wrapped.get_distance(0, 1) > 5.0          # the C-C bond is split by the cell boundary
+    assert np.array_equal(bond_matrix(wrapped), bond_matrix(atoms))
+
+
+def test_torsion_axis_of_ethanol():
+    atoms = molecule("CH3CH2OH")            # C0 (methyl), C1, O2, H3 (hydroxyl), H4 H5 on C1, H6-H8 on C0
+    assert torsion_axis(atoms, [2, 3]) == ([2, 3], [0, 1, 4, 5, 6, 7, 8], (2, 1))
+    assert torsion_axis(atoms, [0, 6, 7, 8])[2] == (0, 1)
+    # a given axis is returned with the top's atom first
+    assert torsion_axis(atoms, [2, 3], axis=(1, 2))[2] == (2, 1)
+
+
+@pytest.mark.parametrize(("top", "axis", "match"), [
+    ([0, 3], None, "do not form one bonded group"),
+    ([1, 4, 5], None, "joined to the rest of the molecule by 2 bonds"),
+    ([2, 9], None, "between 0 and 8"),
+    (list(range(9)), None, "holds every atom"),
+    ([2, 3], (3, 2), "expected one atom of the top"),
+    ([2, 3], (2, 2), "repeated"),
+])
+def test_torsion_axis_bad(top, axis, match):
+    with pytest.raises(InputError, match=match) as info:
+        torsion_axis(molecule("CH3CH2OH"), top, axis, label="torsions[0]")
+    assert str(info.value).startswith("torsions[0] ") and "\n" not in str(info.value)
+
+
+def test_torsion_moments_of_h2o2_by_hand():
+    atoms = molecule("H2O2")                # O0, O1, H2 on O0, H3 on O1
+    m_h = atoms.get_masses()[2]
+    # each OH about the O-O axis: m_H (r_OH sin angle(HOO))^2 (the O lie on the axis; common practice)
+    i_oh = m_h * (atoms.get_distance(0, 2) * np.sin(np.radians(atoms.get_angle(2, 0, 1)))) ** 2
+    out = torsion_moments(atoms, [0, 2])
+    assert out["axis_atoms"] == [0, 1] and out["rest"] == [1, 3]
+    np.testing.assert_allclose([out["inertia_top_amu_A2"], out["inertia_rest_amu_A2"]], [i_oh, i_oh], rtol=1e-12)
+    # two equal tops: I_red = I_top / 2 (Pitzer & Gwinn 1942)
+    np.testing.assert_allclose(out["two_top_amu_A2"], i_oh / 2, rtol=1e-12)
+    assert out["symmetry_deviation_A"] == 0.0
+
+
+def test_torsion_moments_do_not_depend_on_placement_or_wrapping():
+    atoms = molecule("CH3CH2OH")
+    ref_out = torsion_moments(atoms, [2, 3])
+    moved = _moved(atoms, seed=3)
+    moved.set_cell([8.0, 8.0, 8.0])
+    moved.pbc = True
+    moved.wrap()
+    out = torsion_moments(moved, [2, 3])
+    for key in ("inertia_top_amu_A2", "inertia_rest_amu_A2", "two_top_amu_A2", "coupled_amu_A2"):
+        np.testing.assert_allclose(out[key], ref_out[key], rtol=1e-9)
+
+
+def test_heavy_frame_limit():
+    # a top on an infinitely heavy frame turns about a fixed axis: both reduced moments -> I_top (common practice)
+    atoms = molecule("CH3CH2OH")
+    masses = atoms.get_masses()
+    rest = [0, 1, 4, 5, 6, 7, 8]
+    masses[rest] *= 1e7
+    atoms.set_masses(masses)
+    out = torsion_moments(atoms, [2, 3])
+    np.testing.assert_allclose(out["two_top_amu_A2"], out["inertia_top_amu_A2"], rtol=1e-6)
+    np.testing.assert_allclose(out["coupled_amu_A2"], out["inertia_top_amu_A2"], rtol=1e-6)
+
+
+@pytest.mark.parametrize(("name", "top", "sigma"), [
+    ("CH3CH2OH", [2, 3], 1), ("CH3CH2OH", [0, 6, 7, 8], 3), ("CH3OH", [1, 3], 1), ("H2O2", [0, 2], 1),
+    ("C2H6", [0, 2, 3, 4], 3),
+])
+def test_coupled_moment_never_exceeds_two_top(name, top, sigma):
+    # variational bound: the coupled moment minimises the kinetic moment over all rigid-body motions, and the
+    # two-top moment over rotations about the torsion axis only, one of them (Pitzer 1946, from memory)
+    out = torsion_moments(molecule(name), top, symmetry_number=sigma)
+    assert 0 < out["coupled_amu_A2"] <= out["two_top_amu_A2"] * (1 + 1e-12)
+    assert out["two_top_amu_A2"] < min(out["inertia_top_amu_A2"], out["inertia_rest_amu_A2"])
+
+
+@pytest.mark.parametrize(("options", "match"), [
+    ({"symmetry_number": 0}, "symmetry_number: expected a positive integer"),
+    ({"symmetry_number": 2.5}, "symmetry_number: expected a positive integer"),
+    ({"symmetry_number": 2}, "sets of 2 equivalent atoms"),
+    ({"symmetry_tolerance": -0.1}, "symmetry_tolerance"),
+])
+def test_torsion_moments_bad(options, match):
+    with pytest.raises(InputError, match=match):
+        torsion_moments(molecule("C2H6"), [0, 2, 3, 4], **options)
+    with pytest.raises(InputError, match="lies on the axis"):
+        torsion_moments(molecule("CH3OH"), [3], axis=(3, 1))

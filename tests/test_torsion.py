@@ -20,7 +20,8 @@ from ase.build import molecule
 
 from adsorb import constants as C
 from adsorb.errors import InputError, ModelWarning
-from adsorb.gas import GasMolecule, Torsion, torsion_moments
+from adsorb.gas import GasMolecule, Torsion
+from adsorb.geometry import torsion_moments
 from adsorb.partition.rotation import free_rotor
 from adsorb.partition.vibration import harmonic
 
@@ -351,7 +352,7 @@ def _build(atoms=None, nu=None, **change):
     (lambda: _build(mode=-1), "Torsion mode"),
     (lambda: _build(top=[0, 5]), r"torsions\[0\] top: atoms \[0, 5\] do not form one bonded group"),
     (lambda: _build(top=[0, 2, 3], symmetry_number=1), r"torsions\[0\] top: .* joined .* by 2 bonds"),
-    (lambda: _build(top=[0, 2, 99]), "out of range"),
+    (lambda: _build(top=[0, 2, 99]), r"torsions\[0\] top: got \[0, 2, 99\], expected atom indices between 0 and 7"),
     (lambda: _build(top=[2], symmetry_number=1), "lies on the axis"),
     (lambda: _build(top=list(range(8))), "every atom"),
     (lambda: _build(axis=(2, 3)), r"torsions\[0\] axis: expected one atom of the top"),
