@@ -386,3 +386,80 @@ def test_cli_structure_without_energy(tmp_path, capsys):
     assert "0 used" in out
     row = [line.split() for line in out.splitlines() if line and not line.startswith("#")][1]
     assert abs(float(row[4]) - 154.846) < 0.005            # CODATA Ar (Cox et al. 1989)
+
+
+# ethane: rotational constants and the 18 fundamentals of gas-reference-data.md §2a/§2b (A, B = C from memory in
+# the compilation; fundamentals NIST CCCBDB, Shimanouchi); the torsion is the fourth, 289 cm^-1
+ETHANE_ABC = "2.68 0.6630 0.6630"
+ETHANE_NU = "2954 1388 995 289 2896 1379 2969 2969 1468 1468 1190 1190 2985 2985 1469 1469 822 822"
+ETHANE_TORSION = "top=0,2,3,4 v3=1024 sigma=3 mode=3"     # V3: Gurvich via NIST CCCBDB (§1b); C0 and its H
+
+
+@pytest.fixture
+def ethane_file(tmp_path):
+    import ase.io
+
+    path = tmp_path / "ethane.xyz"
+    ase.io.write(path, molecule("C2H6"))
+    return path
+
+
+def _ethane_rows(capsys, path, *extra):
+    code = main(["gas", str(path), "--frequencies", ETHANE_NU, "--rotational-constants", ETHANE_ABC,
+                 "--temperatures", "298.15", *extra])
+    out = capsys.readouterr().out
+    assert code == 0
+    return out, [line.split() for line in out.splitlines() if line and not line.startswith("#")][1:]
+
+
+def test_cli_torsion_hindered_rotor(ethane_file, capsys):
+    out, rows = _ethane_rows(capsys, ethane_file, "--torsion", ETHANE_TORSION)
+    s_hindered = float(rows[0][4])
+    # Gurvich (1989-91) via NIST CCCBDB: S°(298.15 K, 1 bar) = 229.16 +- 0.10 J/mol/K
+    assert abs(s_hindered - 229.16) < 0.15
+    assert "# torsion[0]: hindered rotor (exact) replacing the mode at 289 cm^-1 (index 3)" in out
+    assert "V3 = 1024 cm^-1, sigma_int 3" in out and "harmonic modes: 17" in out
+    # the harmonic torsion is 0.75 low (gas-reference-data.md §3.2, computed there: 228.404)
+    _, harmonic_rows = _ethane_rows(capsys, ethane_file)
+    assert abs(float(harmonic_rows[0][4]) - 228.404) < 0.005
+    # the same rotor chosen by its wavenumber, or as the lowest mode, with the default two-top moment
+    for spec in ("top=0,2,3,4 V3=1024 sigma=3 mode-cm=289", "top=0,2,3,4 v3=1024 sigma=3",
+                 "top=0,2,3,4 v3=1024 sigma=3 moment=two-top solver=exact axis=1,0"):
+        _, same = _ethane_rows(capsys, ethane_file, "--torsion", spec)
+        assert same[0][4] == rows[0][4]
+
+
+def test_cli_torsion_json_choices(ethane_file, capsys):
+    code = main(["gas", str(ethane_file), "--frequencies", ETHANE_NU, "--rotational-constants", ETHANE_ABC,
+                 "--temperatures", "298.15", "--json", "--torsion", "inertia=1.5699 v3=1024 sigma=3 solver=closed-form"])
+    assert code == 0
+    data = json.loads(capsys.readouterr().out)
+    (entry,) = data["choices"]["torsions"]
+    assert entry["solver"] == "closed-form" and entry["reduced_moment_source"] == "given"
+    assert entry["barrier_terms_cm"] == {"V3": 1024.0} and entry["replaced_mode_cm"] == 289.0
+    # the closed form of Sprowl, Campbell, Arnadottir (J. Phys. Chem. C 2016, 120, 9719) with the ethane
+    # moment is within 0.1 J/mol/K of Gurvich's 229.16 (via NIST CCCBDB) too
+    assert abs(data["rows"][0]["entropy_J_mol_K"] - 229.16) < 0.1
+
+
+@pytest.mark.parametrize("spec, match", [
+    ("top=0,2,3,4 colour=red v3=1", "--torsion 'top=0,2,3,4 colour=red v3=1': unknown key 'colour'"),
+    ("top=0,2,3,4 sigma=3", "expected at least one barrier term"),
+    ("top=0,2,3,4 v3", "expected KEY=VALUE"),
+    ("top=0,2,3,4 v3=high", "v3: expected numbers"),
+    ("top=0,2,3,4 v3=1 v3=2", "key 'v3' given twice"),
+    ("top=a,b v3=1", "top: expected comma-separated atom indices"),
+    ("top=0,2,3,4 v3=1024 sigma=three", "sigma: expected a positive integer"),
+    ("top=0,2,3,4 v3=1024 mode=-3", "mode: expected an index >= 0 or 'lowest'"),
+    ("top=0,2,3,4 v3=1024 mode=3 mode-cm=289", "give mode or mode-cm, not both"),
+    ("top=0,2,3,4 v3=1024 sigma=2", "sigma: sigma_int = 2 needs a potential"),
+    ("top=0,2,3,4 v3=1024 solver=fast", "solver: expected one of"),
+    ("v3=1024", "top / inertia: expected"),
+    ("top=0,5 v3=1024", "top: atoms [0, 5] do not form one bonded group"),
+    ("top=0,2,3,4 v3=1024 mode=18", "mode: index 18 out of range"),
+    ("top=0,2,3,4 v3=1024 mode-cm=450", "mode: no free mode within 1 cm^-1 of 450"),
+])
+def test_cli_torsion_bad_input(ethane_file, capsys, spec, match):
+    assert main(["gas", str(ethane_file), "--frequencies", ETHANE_NU, "--torsion", spec]) == 2
+    err = capsys.readouterr().err
+    assert match in err and f"--torsion {spec!r}" in err and len(err.strip().splitlines()) == 1

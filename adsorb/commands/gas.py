@@ -11,6 +11,20 @@ The structure is read with :func:`adsorb.io.read_structure` (any format
 ``--frequency-file`` (:func:`adsorb.io.read_frequencies`: plain text numbers
 separated by whitespace or commas, ``#`` comments, ``120i`` or a minus sign for
 imaginary modes; also ASE vibration JSON and VASP OUTCAR).
+
+``--torsion`` (repeatable) replaces one harmonic mode by a hindered internal
+rotor (:class:`adsorb.gas.Torsion`, docs/methods-gas.md §7), described by
+``KEY=VALUE`` words separated by spaces::
+
+    adsorb gas ethane.xyz --frequency-file ethane.txt --torsion "top=0,2,3,4 v3=1024 sigma=3 mode=3"
+
+Keys: ``top`` (atom indices of the rotating group, with its atom on the axis),
+``v1``, ``v2``, ... (barrier terms V_n in cm^-1, at least one), ``sigma``
+(internal symmetry number, default 1), ``mode`` (0-based index into the
+frequencies, or ``lowest``, the default) or ``mode-cm`` (the mode's wavenumber
+in cm^-1), ``axis`` (two atom indices), ``inertia`` (reduced moment in amu Å^2,
+instead of ``top``), ``moment`` (``two-top`` or ``coupled``) and ``solver``
+(``exact`` or ``closed-form``).
 """
 
 from __future__ import annotations
@@ -49,6 +63,10 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
                         help="policy for imaginary modes (default raise)")
     parser.add_argument("--near-zero-cm", type=float, default=50.0,
                         help="|nu| below which surplus rigid-body modes are dropped (default 50 cm^-1)")
+    parser.add_argument("--torsion", action="append", default=None, metavar='"top=I,J,.. vN=V_CM sigma=S ..."',
+                        help="treat a torsion as a hindered rotor (repeatable); keys: top, v1 v2 ... (barrier "
+                             "terms in cm^-1), sigma, mode (index or 'lowest') or mode-cm, axis, inertia "
+                             "(amu Å^2), moment (two-top|coupled), solver (exact|closed-form)")
     parser.add_argument("--t-min", type=float, default=None, help=f"lowest temperature in K (default {_DEFAULT_RANGE[0]:g})")
     parser.add_argument("--t-max", type=float, default=None, help=f"highest temperature in K (default {_DEFAULT_RANGE[1]:g})")
     parser.add_argument("--t-step", type=float, default=None, help=f"temperature step in K (default {_DEFAULT_RANGE[2]:g})")
@@ -70,6 +88,15 @@ def _numbers(option: str, text: str) -> list[float]:
     if not values:
         raise InputError(f"{option}: expected at least one number, got {text!r}")
     return values
+
+
+def _one_number(option: str, text: str) -> float:
+    from adsorb.errors import InputError
+
+    values = _numbers(option, text)
+    if len(values) != 1:
+        raise InputError(f"{option}: expected one number, got {text!r}")
+    return values[0]
 
 
 def _temperatures(args):
@@ -114,6 +141,70 @@ def _frequencies(args):
         raise InputError(f"--frequencies: {exc}") from None
 
 
+# --torsion keys -> adsorb.gas.Torsion fields
+_FIELDS = {"top": "top", "axis": "axis", "sigma": "symmetry_number", "mode": "mode", "mode-cm": "mode",
+           "inertia": "inertia_amu_A2", "moment": "reduced_moment", "solver": "solver"}
+_TORSION_KEYS = ("top", "v1, v2, ...", "sigma", "mode", "mode-cm", "axis", "inertia", "moment", "solver")
+
+
+def _torsion(spec: str):
+    """An adsorb.gas.Torsion from one ``--torsion`` value of KEY=VALUE words."""
+    from adsorb.errors import InputError
+    from adsorb.gas import Torsion
+
+    label = f"--torsion {spec!r}"
+    fields, barriers = {}, {}
+    for word in spec.split():
+        key, sep, value = word.partition("=")
+        key = key.lower()
+        if not sep or not value:
+            raise InputError(f"{label}: expected KEY=VALUE words, got {word!r}")
+        if key in fields or key in barriers:
+            raise InputError(f"{label}: key {key!r} given twice")
+        if key[:1] == "v" and key[1:].isdigit() and int(key[1:]) >= 1:
+            barriers[key] = _one_number(f"{label} {key}", value)
+        elif key in ("top", "axis"):
+            try:
+                fields[key] = [int(t) for t in value.split(",") if t]
+            except ValueError:
+                raise InputError(f"{label} {key}: expected comma-separated atom indices, got {value!r}") from None
+        elif key in ("sigma", "mode"):
+            if key == "mode" and value == "lowest":
+                fields[key] = value
+            elif value.isdigit():
+                fields[key] = int(value)
+            else:
+                need = "an index >= 0 or 'lowest'" if key == "mode" else "a positive integer"
+                raise InputError(f"{label} {key}: expected {need}, got {value!r}")
+        elif key in ("mode-cm", "inertia"):
+            fields[key] = _one_number(f"{label} {key}", value)
+        elif key in ("moment", "solver"):
+            fields[key] = value
+        else:
+            raise InputError(f"{label}: unknown key {key!r}; expected {', '.join(_TORSION_KEYS)}")
+    if not barriers:
+        raise InputError(f"{label}: expected at least one barrier term vN=V_CM (e.g. v3=1024), got none")
+    if "mode" in fields and "mode-cm" in fields:
+        raise InputError(f"{label}: give mode or mode-cm, not both")
+    kwargs = {_FIELDS.get(k, k): v for k, v in fields.items()}
+    try:
+        return Torsion(barriers_cm={int(k[1:]): v for k, v in barriers.items()}, **kwargs)
+    except InputError as exc:
+        raise InputError(_torsion_message(spec, str(exc), "Torsion ")) from None
+
+
+def _torsion_message(spec: str, message: str, prefix: str) -> str:
+    """``message`` (after ``prefix``) restated with the --torsion value and its key names."""
+    text = message[len(prefix):] if message.startswith(prefix) else message
+    field, sep, rest = text.partition(": ")
+    if sep and field and " " not in field.replace(" / ", "/"):
+        keys = {name: key for key, name in _FIELDS.items() if key != "mode-cm"}
+        keys.update(barriers_cm="vN")
+        field = " / ".join(keys.get(f, f) for f in field.split(" / "))
+        return f"--torsion {spec!r} {field}: {rest}"
+    return f"--torsion {spec!r}: {text}"
+
+
 def _table_text(molecule, table, energy_source) -> str:
     import numpy as np
 
@@ -124,6 +215,12 @@ def _table_text(molecule, table, energy_source) -> str:
         f"# electronic energy {table.energy:.6f} eV ({energy_source}); ZPE {float(np.ravel(table.zpe)[0]):.6f} eV; "
         f"pressure {float(np.ravel(table.pressure)[0]) / 1e5:g} bar; G and H include the electronic energy and ZPE",
     ]
+    for k, t in enumerate(ch["torsions"]):
+        barrier = ", ".join(f"{n} = {v:g}" for n, v in t["barrier_terms_cm"].items()) or "free rotor"
+        lines.append(
+            f"# torsion[{k}]: hindered rotor ({t['solver']}) replacing the mode at {t['replaced_mode_cm']:g} cm^-1 "
+            f"(index {t['replaced_mode_index']}); {barrier} cm^-1, sigma_int {t['symmetry_number']}, "
+            f"I_red {t['reduced_moment_amu_A2']:.4f} amu Å^2 ({t['reduced_moment_source'].split(':')[0]})")
     if ch["dropped_near_zero_modes_cm"]:
         lines.append("# dropped near-zero modes (cm^-1): " + ", ".join(f"{v:g}" for v in ch["dropped_near_zero_modes_cm"]))
     for w in table.warnings:
@@ -162,11 +259,21 @@ def run(args) -> int:
     if args.rotational_constants is not None:
         rot = _numbers("--rotational-constants", args.rotational_constants)
     levels = [tuple(level) for level in args.electronic_level] if args.electronic_level else None
-    molecule = GasMolecule(
-        atoms, _frequencies(args), energy=energy, multiplicity=args.multiplicity,
-        symmetry_number=args.symmetry_number, electronic_levels=levels, rotational_constants=rot,
-        rotor=args.rotor, centrifugal_cm=args.centrifugal_cm, imaginary_modes=args.imaginary_modes,
-        near_zero_cm=args.near_zero_cm, name=args.name)
+    specs = args.torsion or []
+    torsions = [_torsion(spec) for spec in specs]
+    try:
+        molecule = GasMolecule(
+            atoms, _frequencies(args), energy=energy, multiplicity=args.multiplicity,
+            symmetry_number=args.symmetry_number, electronic_levels=levels, rotational_constants=rot,
+            rotor=args.rotor, centrifugal_cm=args.centrifugal_cm, imaginary_modes=args.imaginary_modes,
+            near_zero_cm=args.near_zero_cm, name=args.name, torsions=torsions)
+    except InputError as exc:
+        # name the option behind a torsion error: "GasMolecule torsions[k] ..." is the k-th --torsion
+        found = re.match(r"GasMolecule torsions\[(\d+)\]", str(exc))
+        if found is None:
+            raise
+        k = int(found.group(1))
+        raise InputError(_torsion_message(specs[k], str(exc), f"GasMolecule torsions[{k}] ")) from None
     table = molecule.thermo(temperatures, args.pressure_bar * C.bar)
     if args.json:
         data = table.to_dict()
