@@ -36,12 +36,25 @@ class PathwaySpec:
     states: tuple                 # per state: ((name, count), ...), pairs of (H+ + e-) as '(H+ + e-)'
     temperature_K: float = 298.15
     pressures_Pa: tuple = ()
-    potentials_V: tuple = ()
+    potentials_V: tuple = ()          # V vs RHE (converted from potential_scale)
     limiting_potential: bool = False
-    equilibrium_potential_V: float | None = None
+    equilibrium_potential_V: float | None = None   # V vs RHE
     hydrogen_gas: str | None = None
     balance_checked: bool = True
     description: str = ""
+    potential_scale: str = "RHE"      # scale of the potentials as given in the case file
+    pH: float | None = None
+    potentials_given_V: tuple = ()    # on potential_scale, as given
+    equilibrium_potential_given_V: float | None = None   # on potential_scale, as given
+
+    @property
+    def rhe_minus_she_V(self):
+        """U_RHE - U_SHE = (kT ln 10 / e) pH at the pathway temperature, V; None without a pH."""
+        if self.pH is None:
+            return None
+        from adsorb.diagrams import nernst_slope_V
+
+        return float(nernst_slope_V(self.temperature_K)) * self.pH
 
 
 PAIR = "(H+ + e-)"
@@ -132,18 +145,25 @@ def read_pathways(root, ctx):
     out = {}
     for name, t in root.tables("pathways"):
         t.allow(("kind", "surface", "description", "temperature_K", "pressures_<p>", "potentials_V",
-                 "limiting_potential", "equilibrium_potential_V", "hydrogen_gas", "start", "steps"))
+                 "potential_scale", "pH", "limiting_potential", "equilibrium_potential_V", "hydrogen_gas", "start",
+                 "steps"))
         kind = t.string("kind", required=True, choices=("thermal", "electrochemical"))
         surface = t.string("surface", required=True)
         if surface is not None and surface not in ctx["surfaces"]:
             t.problem("surface", f"unknown surface {surface!r}{t.suggest(surface, ctx['surfaces'])}", "a name from [surfaces]")
         electro = kind == "electrochemical"
+        temperature = t.number("temperature_K", default=298.15, positive=True)
+        scale, ph = _scale_and_ph(t, electro)
         pot = t.numbers("potentials_V")
         if pot is not None and not electro:
             t.problem("potentials_V", "potentials on a thermal pathway", "kind = 'electrochemical' for potentials")
         for i, u in enumerate(pot or []):
             if abs(u) > 5:
-                t.problem(f"potentials_V.{i}", f"{u:g} V", "electrode potentials between -5 and 5 V vs RHE")
+                t.problem(f"potentials_V.{i}", f"{u:g} V", f"electrode potentials between -5 and 5 V vs {scale}")
+        u_eq = t.number("equilibrium_potential_V")
+        if u_eq is not None and not electro:
+            t.problem("equilibrium_potential_V", "an equilibrium potential on a thermal pathway",
+                      "kind = 'electrochemical' for potentials")
         h2 = t.string("hydrogen_gas", default="H2" if electro else None)
         if electro and h2 not in ctx["gases"]:
             t.problem("hydrogen_gas", f"gas {h2!r} not defined", "the [gases] name of H2 (for the hydrogen electrode)")
@@ -177,14 +197,42 @@ def read_pathways(root, ctx):
             if neg:
                 t.problem(f"steps.{i - 1}", f"uses {', '.join(neg)} not present in the state before it", "steps that follow on")
         states = tuple(tuple((k, v) for k, v in s.items() if abs(v) > 1e-9) for s in states)
+        given = tuple(pot if pot is not None else ([0.0] if electro else []))
+        # potentials are kept on the RHE scale for the diagram: U_RHE = U_SHE + (kT ln 10 / e) pH
+        # (computational hydrogen electrode, Norskov et al., J. Phys. Chem. B 2004, 108, 17886)
+        shift = 0.0
+        if scale == "SHE" and ph is not None and temperature is not None:
+            from adsorb.diagrams import nernst_slope_V
+
+            shift = float(nernst_slope_V(temperature)) * ph
         out[name] = PathwaySpec(
             name=name, kind=kind or "thermal", surface=surface or "", steps=tuple(steps), states=states,
-            temperature_K=t.number("temperature_K", default=298.15, positive=True),
-            pressures_Pa=tuple((pmap or {}).items()), potentials_V=tuple(pot if pot is not None else ([0.0] if electro else [])),
+            temperature_K=temperature if temperature is not None else 298.15,
+            pressures_Pa=tuple((pmap or {}).items()), potentials_V=tuple(u + shift for u in given),
             limiting_potential=t.boolean("limiting_potential", default=electro),
-            equilibrium_potential_V=t.number("equilibrium_potential_V"), hydrogen_gas=h2 if electro else None,
-            balance_checked=checked, description=t.string("description") or "")
+            equilibrium_potential_V=None if u_eq is None else u_eq + shift, hydrogen_gas=h2 if electro else None,
+            balance_checked=checked, description=t.string("description") or "", potential_scale=scale,
+            pH=ph, potentials_given_V=given, equilibrium_potential_given_V=u_eq)
     return out
+
+
+SCALES = ("RHE", "SHE")
+
+
+def _scale_and_ph(t, electro):
+    """``potential_scale`` and ``pH`` of a pathway (electrochemical only; SHE needs a pH in [0, 14])."""
+    for key in ("potential_scale", "pH"):
+        if t.has(key) and not electro:
+            t.problem(key, f"{key} on a thermal pathway", "kind = 'electrochemical' for potentials")
+    scale = t.string("potential_scale", default="RHE", choices=SCALES) or "RHE"
+    ph = t.number("pH")
+    if ph is not None and not 0.0 <= ph <= 14.0:
+        t.problem("pH", f"got {ph:g}", "a pH between 0 and 14")
+        ph = None
+    elif ph is None and scale == "SHE" and electro and not t.has("pH"):
+        t.problem("pH", "missing for potential_scale = 'SHE'",
+                  "the pH of the electrolyte (0 to 14), which places the SHE against the RHE")
+    return scale, ph
 
 
 def cross_checks(root, gases, adsorbates, surfaces):

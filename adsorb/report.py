@@ -41,7 +41,8 @@ ASSUMPTIONS = (
     "(theta_A/theta_*)^2 = K p (dissociative); dG° and K° are reported at the named adsorbate standard state "
     "and p° = 1 bar for gases.",
     "Free-energy diagrams use the computational hydrogen electrode (Norskov et al., J. Phys. Chem. B 2004, 108, "
-    "17886): mu(H+ + e-) = 1/2 mu(H2, 1 bar) - eU, U vs RHE; no configurational entropy of adsorbates.",
+    "17886): mu(H+ + e-) = 1/2 mu(H2, 1 bar) - eU, U vs RHE, or - eU_SHE - kT ln(10) pH vs SHE, so that "
+    "U_RHE = U_SHE + (kT ln 10 / e) pH; no configurational entropy of adsorbates.",
 )
 
 CAUTIONS = (
@@ -98,6 +99,19 @@ def _curve(run):
             "empty_sites_ML": _list(run.empty)}
 
 
+def _electrode_text(spec, run):
+    """The computational hydrogen electrode relation used by an electrochemical pathway (None if thermal)."""
+    if run.kind != "electrochemical":
+        return None
+    text = f"mu(H+ + e-) = 1/2 mu({spec.hydrogen_gas}, 1 bar) - eU, U vs RHE"
+    if run.rhe_minus_she_V is not None:
+        text += (f"; vs SHE: - eU_SHE - kT ln(10) pH at pH {run.pH:g}, so U_RHE = U_SHE + "
+                 f"{run.rhe_minus_she_V:.4f} V at {spec.temperature_K:g} K")
+    if run.potential_scale == "SHE":
+        text += "; potentials given vs SHE"
+    return text
+
+
 def results_document(result, *, files=None) -> dict:
     """The results.json content of a :class:`~adsorb.study.StudyResult` (structure: docs/report.md)."""
     case = result.case
@@ -142,9 +156,13 @@ def results_document(result, *, files=None) -> dict:
                          "potentials_V_RHE": list(run.potentials_V),
                          "state_gibbs_eV": [list(g) for g in run.state_gibbs_eV],
                          "step_gibbs_eV_at_0V_RHE": _list(p.step_gibbs), "step_details": list(p.details),
-                         "hydrogen_electrode": (f"mu(H+ + e-) = 1/2 mu({spec.hydrogen_gas}, 1 bar) - eU, U vs RHE"
-                                                if run.kind == "electrochemical" else None),
-                         "summary": run.summary})
+                         "hydrogen_electrode": _electrode_text(spec, run),
+                         "summary": run.summary,
+                         "potential_scale": run.potential_scale if run.kind == "electrochemical" else None,
+                         "pH": run.pH, "rhe_minus_she_V": run.rhe_minus_she_V,
+                         "potentials_V": list(run.potentials_on_scale_V),
+                         "limiting_potential_V": run.summary.get("limiting_potential_V"),
+                         "equilibrium_potential_V": run.summary.get("equilibrium_potential_V")})
     doc = {
         "schema": SCHEMA,
         "created_utc": datetime.now(timezone.utc).isoformat(timespec="seconds"),
@@ -155,7 +173,8 @@ def results_document(result, *, files=None) -> dict:
         "units": {"energy": "eV per molecule (kJ/mol where the key says so)", "temperature": "K", "pressure": "Pa",
                   "entropy": "eV/K per molecule (J/(mol K) where the key says so)", "frequency": "cm^-1",
                   "coverage": "ML: adsorbed molecules (atoms, for dissociative species) per site",
-                  "equilibrium_constant": "Pa^-1 (K), dimensionless (K°)", "potential": "V vs RHE"},
+                  "equilibrium_constant": "Pa^-1 (K), dimensionless (K°)",
+                  "potential": "V vs RHE (keys ending _V_RHE); potentials_V on each pathway's potential_scale"},
         "conditions": {"temperature_K": _list(result.temperatures_K),
                        "partial_pressures_Pa": dict(cond.pressures_Pa), "fugacity": cond.fugacity,
                        "default_standard_state": cond.standard_state, "gas_standard_pressure_Pa": C.P_STANDARD},
@@ -257,10 +276,34 @@ def validate_results(data) -> None:
             bad.append(f"pathways.{i}: expected one list of {n} state energies (eV) per potential")
         if p.get("kind") not in ("thermal", "electrochemical"):
             bad.append(f"pathways.{i}.kind: expected 'thermal' or 'electrochemical'")
+        bad += _check_scale(i, p)
     if not data["assumptions"] or not data["cautions"]:
         bad.append("assumptions and cautions: expected non-empty lists")
     if bad:
         raise InputError("results: " + "; ".join(bad))
+
+
+def _check_scale(i, p):
+    """Potential scale, pH and the RHE/SHE relation of one pathway entry (keys absent in older documents)."""
+    bad = []
+    if "potential_scale" not in p:
+        return bad
+    electro = p.get("kind") == "electrochemical"
+    if p["potential_scale"] not in (("RHE", "SHE") if electro else (None,)):
+        bad.append(f"pathways.{i}.potential_scale: expected 'RHE' or 'SHE' (electrochemical) or null (thermal)")
+    ph, shift = p.get("pH"), p.get("rhe_minus_she_V")
+    if ph is not None and not (_numbers(ph) and 0 <= ph <= 14):
+        bad.append(f"pathways.{i}.pH: expected null or a number in [0, 14]")
+    if p["potential_scale"] == "SHE" and (ph is None or not _numbers(shift)):
+        bad.append(f"pathways.{i}: the SHE scale needs pH and rhe_minus_she_V")
+    u, u_rhe = p.get("potentials_V", []), p.get("potentials_V_RHE", [])
+    if not (_numbers(u) and len(u) == len(u_rhe)):
+        bad.append(f"pathways.{i}.potentials_V: expected {len(u_rhe)} potentials (V) on the pathway's scale")
+    elif p["potential_scale"] == "SHE" and _numbers(shift) and not all(
+            abs(a + shift - b) <= 1e-9 for a, b in zip(u, u_rhe)):
+        bad.append(f"pathways.{i}.potentials_V: expected potentials_V_RHE - rhe_minus_she_V (U_RHE = U_SHE + "
+                   "kT ln(10) pH / e)")
+    return bad
 
 
 # ------------------------------------------------------------------ files
@@ -313,8 +356,12 @@ def write_tables(result, folder) -> list:
                               ["temperature_K", f"pressure_{c.gas}_Pa"] + [f"theta_{s}" for s in c.species], rows))
     for run in result.pathways:
         header = ["state", "label", "pairs_consumed_so_far"] + [f"gibbs_eV_at_{u:.3f}_V_RHE" for u in run.potentials_V]
+        extra = run.potential_scale == "SHE"
+        if extra:   # the same energies again, headed by the potentials on the case's own scale
+            header += [f"gibbs_eV_at_{u:.3f}_V_SHE_pH_{run.pH:g}" for u in run.potentials_on_scale_V]
         pairs = run.pathway.cumulative_pairs
-        rows = [[i, lab, int(pairs[i])] + [g[i] for g in run.state_gibbs_eV] for i, lab in enumerate(run.pathway.labels)]
+        rows = [[i, lab, int(pairs[i])] + [g[i] for g in run.state_gibbs_eV] * (2 if extra else 1)
+                for i, lab in enumerate(run.pathway.labels)]
         out.append(_write_csv(folder / f"pathway_{slug(run.name)}.csv", header, rows))
     if result.comparison is not None:
         cmp = result.comparison

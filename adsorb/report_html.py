@@ -133,8 +133,20 @@ def render_html(doc, images) -> str:
                     f"{escape(g)} {v / 1e5:g} bar" for g, v in p["pressures_Pa"].items()) + ".</p>")
             if p["hydrogen_electrode"]:
                 out.append(f"<p>Computational hydrogen electrode: {escape(p['hydrogen_electrode'])}.</p>")
+            scale = p.get("potential_scale")
+            if scale:
+                out.append(f"<p>Potential scale: <b>{escape(scale)}</b>" + (
+                    f", pH {p['pH']:g}: U_RHE = U_SHE + {p['rhe_minus_she_V']:.4f} V "
+                    f"(kT ln 10 / e × pH at {p['temperature_K']:g} K)" if p.get("pH") is not None else "")
+                    + (f"; limiting potential {p['limiting_potential_V']:.3f} V vs {escape(scale)}"
+                       if p.get("limiting_potential_V") is not None else "") + ".</p>")
             figure(f"Free-energy diagram: {p['name']}")
-            out.append(_table(["state"] + [f"G at {u:.3f} V (eV)" for u in p["potentials_V_RHE"]],
+            if scale == "SHE":
+                heads = [f"G at {u:.3f} V vs SHE ({r:.3f} V vs RHE) (eV)"
+                         for u, r in zip(p["potentials_V"], p["potentials_V_RHE"])]
+            else:
+                heads = [f"G at {u:.3f} V{' vs RHE' if scale else ''} (eV)" for u in p["potentials_V_RHE"]]
+            out.append(_table(["state"] + heads,
                               [[lab] + [g[i] for g in p["state_gibbs_eV"]] for i, lab in enumerate(p["labels"])]))
             out.append(_table(["summary", "value"], [[k, v] for k, v in p["summary"].items()
                                                      if not isinstance(v, (list, dict))]))

@@ -110,8 +110,10 @@ def write_plots(result, folder) -> list:
 
         for run in result.pathways:
             stem = f"pathway_{slug(run.name)}"
-            plot_pathways(run.pathway, folder / stem, potentials=run.potentials_V,
-                          title=f"{run.name} at {result.case.pathways[run.name].temperature_K:g} K")
+            ph = f", pH {run.pH:g}" if run.pH is not None else ""
+            plot_pathways(run.pathway, folder / stem, potentials=run.potentials_on_scale_V or run.potentials_V,
+                          scale=run.potential_scale, ph=run.pH or 0.0,
+                          title=f"{run.name} at {result.case.pathways[run.name].temperature_K:g} K{ph}")
             add(f"Free-energy diagram: {run.name}", stem)
     if result.comparison is not None:
         from adsorb.model_choice import plot_model_entropies

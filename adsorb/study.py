@@ -116,7 +116,11 @@ class CurveRun:
 
 @dataclass(frozen=True)
 class PathwayRun:
-    """A free-energy diagram: the :class:`adsorb.diagrams.Pathway`, state energies at potentials, summary."""
+    """A free-energy diagram: the :class:`adsorb.diagrams.Pathway`, state energies at potentials, summary.
+
+    ``potentials_V`` are on the RHE scale; ``potentials_on_scale_V`` are the same potentials on
+    ``potential_scale`` (the scale of the case file), related by U_RHE = U_SHE + ``rhe_minus_she_V``.
+    """
 
     name: str
     kind: str
@@ -124,6 +128,10 @@ class PathwayRun:
     potentials_V: tuple
     state_gibbs_eV: tuple             # one tuple of state energies per potential
     summary: dict
+    potential_scale: str = "RHE"
+    pH: float | None = None
+    rhe_minus_she_V: float | None = None
+    potentials_on_scale_V: tuple = ()
 
 
 @dataclass(frozen=True)
@@ -287,17 +295,27 @@ class _Study:
                                         pairs=int(round(dict(s).get("(H+ + e-)", 0)))) for s in ps.states]
         path = diagrams.pathway_from_states(states, gibbs, hydrogen=hydrogen or "H2", name=ps.name, temperature=t)
         potentials = list(ps.potentials_V) if ps.kind == "electrochemical" else [0.0]
+        shift = ps.rhe_minus_she_V if ps.kind == "electrochemical" else None
+        on_scale = 0.0 if ps.potential_scale == "RHE" else (shift or 0.0)   # U_RHE - U_scale
         summary = {}
         if ps.kind == "electrochemical" and path.electrochemical:
             es = diagrams.electrochemical_summary(path, equilibrium_potential_V=ps.equilibrium_potential_V)
             summary = es.as_dict()
+            u_l, u_eq = es.limiting.potential, es.equilibrium_potential
+            summary.update(potential_scale=ps.potential_scale, pH=ps.pH, limiting_potential_V=u_l - on_scale,
+                           equilibrium_potential_V=u_eq - on_scale)
+            if shift is not None:
+                summary.update(limiting_potential_V_SHE=u_l - shift, equilibrium_potential_V_SHE=u_eq - shift)
             if ps.limiting_potential:
-                potentials.append(es.limiting.potential)
+                potentials.append(u_l)
         else:
             summary = diagrams.thermal_summary(path).as_dict()
         energies = tuple(tuple(float(x) for x in diagrams.state_energies(path, u)) for u in potentials)
+        electro = ps.kind == "electrochemical"
         return PathwayRun(name=ps.name, kind=ps.kind, pathway=path, potentials_V=tuple(potentials),
-                          state_gibbs_eV=energies, summary=summary)
+                          state_gibbs_eV=energies, summary=summary,
+                          potential_scale=ps.potential_scale if electro else "RHE", pH=ps.pH if electro else None,
+                          rhe_minus_she_V=shift, potentials_on_scale_V=tuple(u - on_scale for u in potentials))
 
     # ---------------------------------------------------------------- comparison
     def comparison(self, cs):

@@ -172,3 +172,50 @@ def test_missing_case_file_is_one_line(tmp_path):
     """A case path that does not exist is a CaseError naming it."""
     with pytest.raises(CaseError, match="case file not found"):
         load_case(tmp_path / "nope.toml")
+
+
+@pytest.mark.parametrize("name, fix", [("bad_potential_scale.toml", ('potential_scale = "NHE"', 'potential_scale = "RHE"')),
+                                       ("bad_ph_out_of_range.toml", ("pH = 15", "pH = 14"))])
+def test_scale_and_ph_cases_are_valid_once_fixed(tmp_path, name, fix):
+    """The two electrochemical broken files differ from a valid case by the one bad value only."""
+    case = load_case(_write(tmp_path, (BAD / name).read_text().replace(*fix)))
+    assert case.pathways["hydrogen_deposition"].kind == "electrochemical"
+
+
+def test_she_potentials_converted_to_rhe():
+    """U_RHE = U_SHE + (kT ln 10 / e) pH (Nørskov et al., J. Phys. Chem. B 2004, 108, 17886); the Nernst
+    slope at 298.15 K is 0.05916 V per pH unit (common practice)."""
+    case = load_case(CASES / "orr_fictitious_sites.toml")
+    she, rhe = case.pathways["orr_pH13_SHE"], case.pathways["orr"]
+    assert (she.potential_scale, she.pH, rhe.potential_scale, rhe.pH) == ("SHE", 13.0, "RHE", None)
+    assert she.rhe_minus_she_V == pytest.approx(13 * 0.05916, abs=2e-4)
+    assert she.potentials_given_V == (0.0, 0.461)
+    assert she.potentials_V == pytest.approx((she.rhe_minus_she_V, 0.461 + she.rhe_minus_she_V), rel=1e-12)
+    assert rhe.potentials_V == rhe.potentials_given_V == (0.0, 1.23)
+
+
+@pytest.mark.parametrize("edit, key, words", [
+    (('potential_scale = "RHE"\npH = 7', 'potential_scale = "SHE"'), "pathways.hydrogen_deposition.pH",
+     "missing for potential_scale = 'SHE'"),
+    (("pH = 7", "pH = -1"), "pathways.hydrogen_deposition.pH", "between 0 and 14"),
+    (("potentials_V = [0.0]", "potentials_V = [0.0, 6.0]"), "pathways.hydrogen_deposition.potentials_V.1",
+     "between -5 and 5 V vs RHE"),
+])
+def test_scale_problems_are_one_line(tmp_path, edit, key, words):
+    """SHE without a pH, a negative pH, a potential out of range: one line naming the key."""
+    text = (BAD / "bad_potential_scale.toml").read_text().replace('potential_scale = "NHE"', 'potential_scale = "RHE"')
+    with pytest.raises(CaseError) as info:
+        load_case(_write(tmp_path, text.replace(*edit)))
+    assert len(info.value.problems) == 1, info.value.problems
+    assert key in info.value.problems[0] and words in info.value.problems[0]
+
+
+def test_scale_refused_on_thermal_pathway(tmp_path):
+    """potential_scale and pH belong to electrochemical pathways only."""
+    text = BASE.read_text().replace('temperature_K = 400.0', 'temperature_K = 400.0\npotential_scale = "SHE"\npH = 7')
+    with pytest.raises(CaseError) as info:
+        load_case(_write(tmp_path, text))
+    joined = "\n".join(info.value.problems)
+    assert len(info.value.problems) == 2
+    assert "pathways.desorption.potential_scale: potential_scale on a thermal pathway" in joined
+    assert "pathways.desorption.pH: pH on a thermal pathway" in joined

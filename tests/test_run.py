@@ -212,3 +212,47 @@ def test_debug_shows_the_exception(tmp_path):
     (out / "x").write_text("x")
     with pytest.raises(InputError, match="not empty"):
         main(["--debug", "run", str(CASES / "orr_fictitious_sites.toml"), "--out", str(out)])
+
+
+def test_orr_at_ph13_on_the_she_scale(runs):
+    """vs SHE: mu(H+ + e-) = 1/2 mu(H2) - eU_SHE - kT ln(10) pH (Nørskov et al. 2004), so the pH 13 diagram at
+    U_SHE equals the RHE diagram at U_SHE + kT ln(10) 13 / e; the slope is 0.05916 V per pH at 298.15 K
+    (common practice). The limiting potential keeps its value vs RHE and moves by that shift vs SHE."""
+    folder, doc = runs["orr_fictitious_sites.toml"]
+    rhe, she = (next(p for p in doc["pathways"] if p["name"] == n) for n in ("orr", "orr_pH13_SHE"))
+    assert (she["potential_scale"], she["pH"], rhe["potential_scale"], rhe["pH"]) == ("SHE", 13.0, "RHE", None)
+    shift = she["rhe_minus_she_V"]
+    assert shift == pytest.approx(13 * 0.05916, abs=2e-4)
+    g0 = np.array(rhe["state_gibbs_eV"][0])
+    n = np.concatenate([[0], np.cumsum(rhe["pairs_consumed"])])
+    for u, g in zip(she["potentials_V"], she["state_gibbs_eV"]):
+        np.testing.assert_allclose(g, g0 + n * (u + shift), rtol=0, atol=1e-12)
+    u_l = rhe["summary"]["limiting_potential_V_RHE"]
+    assert she["summary"]["limiting_potential_V_RHE"] == pytest.approx(u_l, rel=1e-12)
+    assert she["limiting_potential_V"] == pytest.approx(u_l - shift, rel=1e-12)
+    assert she["summary"]["limiting_potential_V_SHE"] == pytest.approx(u_l - shift, rel=1e-12)
+    assert she["equilibrium_potential_V"] == pytest.approx(1.23 - shift, abs=1e-9)   # 4.92 eV / 4 (Nørskov 2004)
+    assert she["summary"]["overpotential_V"] == pytest.approx(rhe["summary"]["overpotential_V"], abs=1e-9)
+    assert rhe["limiting_potential_V"] == pytest.approx(u_l, rel=1e-12)
+    text = (folder / "report.html").read_text(encoding="utf-8")
+    assert "Potential scale: <b>SHE</b>, pH 13" in text and "V vs SHE" in text
+    header = (folder / "pathway_orr_pH13_SHE.csv").read_text().splitlines()[0]
+    assert "gibbs_eV_at_0.000_V_SHE_pH_13" in header and "gibbs_eV_at_0.769_V_RHE" in header
+
+
+def test_validator_checks_the_potential_scale(runs):
+    """An SHE pathway whose potentials do not match U_RHE - (kT ln 10/e) pH, or a pH of 15, is refused."""
+    _, doc = runs["orr_fictitious_sites.toml"]
+    i = next(k for k, p in enumerate(doc["pathways"]) if p["potential_scale"] == "SHE")
+    broken = json.loads(json.dumps(doc))
+    broken["pathways"][i]["potentials_V"][0] += 0.1
+    with pytest.raises(InputError, match=f"pathways.{i}.potentials_V"):
+        validate_results(broken)
+    broken = json.loads(json.dumps(doc))
+    broken["pathways"][i]["pH"] = 15
+    with pytest.raises(InputError, match=f"pathways.{i}.pH"):
+        validate_results(broken)
+    broken = json.loads(json.dumps(doc))
+    broken["pathways"][i]["potential_scale"] = "NHE"
+    with pytest.raises(InputError, match="potential_scale"):
+        validate_results(broken)
