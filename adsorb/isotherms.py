@@ -6,8 +6,9 @@ site balance (dissociative species, mean-field interactions, multi-site species,
 site kinds). The scan functions evaluate it on a pressure axis (:func:`isotherm`),
 a temperature axis (:func:`isobar`) or a (T, p) grid (:func:`coverage_map`), and
 return a :class:`CoverageScan`. :func:`isosteric_heat` applies the
-Clausius–Clapeyron relation at constant coverage. The plot functions write PNG
-and SVG files and return the matplotlib Figure.
+Clausius–Clapeyron relation at constant coverage, and :func:`plot_isosteric_heat`
+draws it against coverage. The plot functions write PNG and SVG files and return
+the matplotlib Figure.
 
 Sources: I. Langmuir, J. Am. Chem. Soc. 1918, 40, 1361 (isotherm); the isosteric
 heat q_st = R T² (∂ ln p/∂T)_θ = -ΔH_ads is the Clausius–Clapeyron relation applied
@@ -37,6 +38,7 @@ __all__ = [
     "plot_isotherm",
     "plot_isobar",
     "plot_coverage_map",
+    "plot_isosteric_heat",
 ]
 
 
@@ -469,5 +471,80 @@ def plot_coverage_map(scan, path, *, species=None, pressure_unit="bar"):
         ax.set_ylabel("temperature T / K")
         ax.set_title(scan.names[i])
         fig.colorbar(mesh, ax=ax, label="coverage θ / ML")
+    write_figure(fig, path)
+    return fig
+
+
+_HEAT_UNITS = {"kJ/mol": (constants.EV_TO_KJ_MOL, "kJ mol⁻¹"), "eV": (1.0, "eV")}
+
+
+def plot_isosteric_heat(coverage, heat, path, *, labels=None, unit="kJ/mol", linestyles=None, title=None):
+    """Plot isosteric heats q_st against coverage; write PNG and SVG; return the Figure.
+
+    q_st = k T² (∂ ln p/∂T)_θ is the Clausius–Clapeyron relation at constant
+    coverage (see :func:`isosteric_heat`); this function only draws it.
+
+    Parameters
+    ----------
+    coverage : array_like of shape (n_c,) or (n_curves, n_c)
+        Coverages in ML (the x values; one row for all curves, or one row per curve).
+    heat : array_like of shape (n_c,) or (n_curves, n_c)
+        q_st in eV per gas molecule, e.g. a row of :func:`isosteric_heat`.
+    path : str or Path
+        Output path without suffix (``.png`` and ``.svg`` are written).
+    labels : sequence of str, optional (keyword-only)
+        One legend entry per curve (default: none).
+    unit : {"kJ/mol", "eV"}, optional (keyword-only)
+        Unit of the y axis (default kJ/mol).
+    linestyles : sequence, optional (keyword-only)
+        One matplotlib line style per curve (default solid).
+    title : str, optional (keyword-only)
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        The curves are Line2D objects with gid ``"isosteric-heat"``.
+
+    Raises
+    ------
+    InputError
+        Mismatched shapes, non-finite values, coverages outside [0, 1], an unknown
+        unit, or a wrong number of labels or line styles.
+    """
+    if unit not in _HEAT_UNITS:
+        msg = f"unit: expected 'kJ/mol' or 'eV', got {unit!r}"
+        raise InputError(msg)
+    q = np.asarray(heat, dtype=float)
+    q = q[None] if q.ndim == 1 else q
+    if q.ndim != 2 or q.size == 0:
+        msg = f"heat: expected an array of shape (n_c,) or (n_curves, n_c) in eV, got shape {np.shape(heat)}"
+        raise InputError(msg)
+    theta = np.asarray(coverage, dtype=float)
+    try:
+        theta = np.broadcast_to(theta, q.shape)
+    except ValueError:
+        msg = f"coverage: expected shape ({q.shape[1]},) or {q.shape} to match heat, got {np.shape(coverage)}"
+        raise InputError(msg) from None
+    if not (np.all(np.isfinite(q)) and np.all(np.isfinite(theta))):
+        msg = "heat, coverage: expected finite values (q_st in eV, θ in ML)"
+        raise InputError(msg)
+    if np.any(theta < 0) or np.any(theta > 1):
+        msg = f"coverage: expected coverages in [0, 1] ML, got {theta.min():g} to {theta.max():g}"
+        raise InputError(msg)
+    for name, values in (("labels", labels), ("linestyles", linestyles)):
+        if values is not None and len(values) != q.shape[0]:
+            msg = f"{name}: expected {q.shape[0]} entries (one per curve), got {len(values)}"
+            raise InputError(msg)
+    factor, text = _HEAT_UNITS[unit]
+    fig, (ax,) = _new_figure()
+    for i in range(q.shape[0]):
+        ax.plot(theta[i], q[i] * factor, ls=linestyles[i] if linestyles is not None else "-",
+                label=labels[i] if labels is not None else None, gid="isosteric-heat")
+    ax.set_xlim(0, 1)
+    ax.set_xlabel("coverage θ / ML")
+    ax.set_ylabel(f"isosteric heat q_st / {text}")
+    ax.set_title(title or "isosteric heat (Clausius–Clapeyron at constant θ)", fontsize=10)
+    if labels is not None:
+        ax.legend(loc="best", fontsize="small")
     write_figure(fig, path)
     return fig

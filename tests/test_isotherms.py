@@ -178,3 +178,40 @@ def test_bad_model_definitions():
     bad = AdsorptionModel(["A", "B"], lambda T: np.ones((1,) + np.shape(T)))
     with pytest.raises(InputError, match="shape"):
         isotherm(bad, 300.0, [1e5], composition=[0.5, 0.5])
+
+
+def test_plot_isosteric_heat(tmp_path):
+    """q_st(θ) from Fowler–Guggenheim (q_st(0) - εθ) drawn in kJ/mol (1 eV = 96.485 kJ/mol, CODATA) and eV."""
+    from adsorb.isotherms import plot_isosteric_heat
+
+    eps = 0.15
+    theta = np.linspace(0.05, 0.95, 7)
+    q = np.stack([isosteric_heat(_langmuir_model(interactions=[[e]]), theta[None], 400.0)[0] for e in (0.0, eps)])
+    fig = plot_isosteric_heat(theta, q, tmp_path / "qst", labels=["ideal", "interacting"], linestyles=["-", "--"])
+    lines = [ln for ln in fig.axes[0].get_lines() if ln.get_gid() == "isosteric-heat"]
+    assert len(lines) == 2
+    assert_allclose(lines[0].get_xdata(), theta, rtol=1e-15)
+    assert_allclose(lines[1].get_ydata(), (Q0 + GAMMA * kB_eV * 400.0 - eps * theta) * 96.485332, rtol=1e-7)
+    assert "kJ" in fig.axes[0].get_ylabel() and "ML" in fig.axes[0].get_xlabel()
+    assert (tmp_path / "qst.png").read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert "<svg" in (tmp_path / "qst.svg").read_text()
+    fig = plot_isosteric_heat(theta, q[0], tmp_path / "qst_ev", unit="eV")
+    assert_allclose(fig.axes[0].get_lines()[0].get_ydata(), q[0], rtol=1e-15)
+    assert "eV" in fig.axes[0].get_ylabel()
+
+
+@pytest.mark.parametrize("kwargs, match", [
+    ({"unit": "kcal/mol"}, "unit"),
+    ({"labels": ["one"]}, "labels"),
+    ({"coverage": np.linspace(0, 1, 4)}, "coverage"),
+    ({"coverage": np.linspace(0.1, 1.2, 5)}, "coverage"),
+    ({"heat": np.full((2, 5), np.nan)}, "finite"),
+])
+def test_plot_isosteric_heat_bad_input(tmp_path, kwargs, match):
+    """Bad shapes, units, labels or coverages raise InputError naming the argument."""
+    from adsorb.isotherms import plot_isosteric_heat
+
+    args = {"coverage": np.linspace(0.1, 0.9, 5), "heat": np.ones((2, 5))}
+    args.update({k: kwargs.pop(k) for k in ("coverage", "heat") if k in kwargs})
+    with pytest.raises(InputError, match=match):
+        plot_isosteric_heat(args["coverage"], args["heat"], tmp_path / "x", **kwargs)
