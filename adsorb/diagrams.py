@@ -86,17 +86,23 @@ _SCALES = ("RHE", "SHE")
 # ---------------------------------------------------------------------------
 
 
-def _pairs(value, what: str) -> int:
-    if isinstance(value, bool):
-        msg = f"{what}: expected an integer number of (H+ + e-) pairs, got {value!r}"
-        raise InputError(msg)
+def _finite(value, what: str, expected: str) -> float:
+    """``float(value)``; InputError ``"{what}: expected {expected}, got {value!r}"`` if not a finite number."""
     try:
-        f = float(value)
+        x = float(value)
     except (TypeError, ValueError):
-        msg = f"{what}: expected an integer number of (H+ + e-) pairs, got {value!r}"
-        raise InputError(msg) from None
-    if not math.isfinite(f) or not f.is_integer():
-        msg = f"{what}: expected an integer number of (H+ + e-) pairs, got {value!r}"
+        x = math.nan
+    if not math.isfinite(x):
+        msg = f"{what}: expected {expected}, got {value!r}"
+        raise InputError(msg)
+    return x
+
+
+def _pairs(value, what: str) -> int:
+    expected = "an integer number of (H+ + e-) pairs"
+    f = math.nan if isinstance(value, bool) else _finite(value, what, expected)
+    if not f.is_integer():
+        msg = f"{what}: expected {expected}, got {value!r}"
         raise InputError(msg)
     return int(f)
 
@@ -115,15 +121,7 @@ def _coefficients(mapping, what: str) -> tuple:
         if not isinstance(name, str) or not name:
             msg = f"{what}: species names must be non-empty strings, got {name!r}"
             raise InputError(msg)
-        try:
-            c = float(coef)
-        except (TypeError, ValueError):
-            msg = f"{what}: coefficient of {name!r} must be a number, got {coef!r}"
-            raise InputError(msg) from None
-        if not math.isfinite(c):
-            msg = f"{what}: coefficient of {name!r} must be finite, got {coef!r}"
-            raise InputError(msg)
-        out.append((name, c))
+        out.append((name, _finite(coef, f"{what} coefficient of {name!r}", "a finite number")))
     return tuple(out)
 
 
@@ -188,14 +186,7 @@ class PathwayStep:
         object.__setattr__(self, "pairs_consumed",
                            _pairs(self.pairs_consumed, f"PathwayStep {self.label!r} pairs_consumed"))
         if self.delta_gibbs is not None:
-            try:
-                g = float(self.delta_gibbs)
-            except (TypeError, ValueError):
-                msg = f"PathwayStep {self.label!r} delta_gibbs: expected a number in eV, got {self.delta_gibbs!r}"
-                raise InputError(msg) from None
-            if not math.isfinite(g):
-                msg = f"PathwayStep {self.label!r} delta_gibbs: expected a finite number in eV, got {self.delta_gibbs!r}"
-                raise InputError(msg)
+            g = _finite(self.delta_gibbs, f"PathwayStep {self.label!r} delta_gibbs", "a finite number in eV")
             if self.changes:
                 msg = f"PathwayStep {self.label!r}: give either changes or delta_gibbs, not both"
                 raise InputError(msg)
@@ -247,11 +238,8 @@ class Pathway:
         object.__setattr__(self, "pairs_consumed",
                            tuple(_pairs(n, f"Pathway {self.name!r} pairs_consumed") for n in self.pairs_consumed))
         if self.temperature is not None:
-            t = float(self.temperature)
-            if not math.isfinite(t) or t <= 0:
-                msg = f"Pathway {self.name!r} temperature: expected a number > 0 K, got {self.temperature!r}"
-                raise InputError(msg)
-            object.__setattr__(self, "temperature", t)
+            object.__setattr__(self, "temperature",
+                               _scalar_temperature(self.temperature, f"Pathway {self.name!r} temperature"))
 
     @property
     def n_states(self) -> int:
@@ -370,14 +358,7 @@ def _species_value(name, gibbs):
                    "temperature and pressure")
             raise InputError(msg)
         return float(g.reshape(())), value, float(np.asarray(value.temperature).reshape(()))
-    try:
-        g = float(value)
-    except (TypeError, ValueError):
-        msg = f"pathway: Gibbs energy of species {name!r} must be a number in eV or a ThermoTable, got {value!r}"
-        raise InputError(msg) from None
-    if not math.isfinite(g):
-        msg = f"pathway: Gibbs energy of species {name!r} must be finite, got {value!r}"
-        raise InputError(msg)
+    g = _finite(value, f"pathway: Gibbs energy of species {name!r}", "a finite number in eV or a ThermoTable")
     return g, None, None
 
 

@@ -272,3 +272,13 @@ def test_pathway_validation():
         Pathway(name="x", labels=("a", "b"), gibbs=(0.0,), pairs_consumed=(0,))
     with pytest.raises(InputError, match="finite"):
         Pathway(name="x", labels=("a", "b"), gibbs=(0.0, float("nan")), pairs_consumed=(0,))
+    for bad in ("hot", -5.0, float("inf"), [300.0, 400.0]):
+        with pytest.raises(InputError, match="Pathway 'x' temperature"):
+            Pathway(name="x", labels=("a", "b"), gibbs=(0.0, 1.0), pairs_consumed=(0,), temperature=bad)
+    for bad in (True, 1.5, "two"):
+        with pytest.raises(InputError, match="integer number of"):
+            Pathway(name="x", labels=("a", "b"), gibbs=(0.0, 1.0), pairs_consumed=(bad,))
+    with pytest.raises(InputError, match="coefficient of 'A\\*': expected a finite number"):
+        PathwayState("A", {"A*": float("nan")})
+    with pytest.raises(InputError, match="delta_gibbs: expected a finite number in eV"):
+        PathwayStep("B", delta_gibbs="x")
