@@ -16,7 +16,7 @@ from pathlib import Path
 
 import numpy as np
 
-from bench.harness import Result, median_time
+from bench.harness import Result, median_time, peak_memory_mb
 
 TEMPS = np.linspace(300.0, 800.0, 50)
 
@@ -85,9 +85,12 @@ def run(quick=False, repeats=3):
         assert result.delta_gibbs_eV.shape == (n, TEMPS.size) and np.all(np.isfinite(result.delta_gibbs_eV))
         t_ours = median_time(lambda: ours(path), repeats)
         t_base = median_time(lambda: bare_read(path), repeats)
-    return Result(name=f"batch over ase.db ({n} adsorbate rows, 50 T)", ours_s=t_ours, baseline_s=t_base,
+        mem_ours, mem_base = peak_memory_mb(lambda: ours(path)), peak_memory_mb(lambda: bare_read(path))
+    res = Result(name=f"batch over ase.db ({n} adsorbate rows, 50 T)", ours_s=t_ours, baseline_s=t_base,
                   baseline="bare ase.db read of the same rows", target="ratio <= 1.5",
                   target_met=t_ours <= 1.5 * t_base)
+    res.extra.update(peak_memory_MB=mem_ours, peak_memory_MB_bare_read=mem_base)
+    return res
 
 
 def scaling(sizes=(500, 1000, 2000, 4000)):
