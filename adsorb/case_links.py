@@ -280,7 +280,7 @@ def cross_checks(root, gases, adsorbates, surfaces):
 
 def coverage_pressures(root, conditions, gases, adsorbates, outputs):
     """Every gas that feeds a coverage calculation needs a partial pressure."""
-    if not (outputs.coverages or outputs.curves):
+    if not (outputs.coverages or outputs.curves or outputs.isobars):
         return
     for name, a in adsorbates.items():
         if a.in_coverages and a.gas in gases and a.gas not in conditions.pressures_Pa:

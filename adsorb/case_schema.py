@@ -263,8 +263,9 @@ def _unit_of(key):
     for unit in PRESSURE_UNITS:
         if base.endswith(f"_{unit}"):
             return f" in {unit}"
-    for suffix, text in (("_K", " in K"), ("_eV", " in eV"), ("_cm", " in cm^-1"), ("_A2", " in Å^2"),
-                         ("_A", " in Å"), ("_V", " in V"), ("_amu_A2", " in amu Å^2"), ("_amu", " in amu")):
+    for suffix, text in (("_K_s", " in K/s"), ("_ML", " in ML"), ("_K", " in K"), ("_eV", " in eV"),
+                         ("_cm", " in cm^-1"), ("_amu_A2", " in amu Å^2"), ("_A2", " in Å^2"),
+                         ("_A", " in Å"), ("_V", " in V"), ("_amu", " in amu")):
         if base.endswith(suffix):
             return text
     return ""
@@ -387,6 +388,7 @@ class CurveSpec:
     temperatures_K: tuple
     pressures_Pa: tuple
     interactions: bool = False
+    entry: int = 0                # index of the case-file entry (isobars: its variants share it)
 
 
 @dataclass(frozen=True)
@@ -410,6 +412,10 @@ class OutputSpec:
     comparison: ComparisonSpec | None = None
     thermo_tables: bool = True
     plots: bool = True
+    isobars: tuple = ()           # CurveSpec of kind "isobar", one per interaction variant
+    isosteric_heats: tuple = ()   # adsorb.case_outputs.IsostericSpec
+    tpd: tuple = ()               # adsorb.case_outputs.TPDSpec
+    nasa: object = None           # adsorb.case_outputs.NasaSpec or None
 
 
 def _coverage_surface(t, ctx, surface):
@@ -430,7 +436,8 @@ def read_outputs(root, ctx, conditions):
     t = root.table("outputs")
     if t is None:
         t = Reader(root.file, {}, "outputs", root.problems, root.base)
-    t.allow(("coverages", "isotherms", "maps", "model_comparison", "thermo_tables", "plots"))
+    t.allow(("coverages", "isotherms", "maps", "model_comparison", "thermo_tables", "plots", "isobars",
+             "isosteric_heats", "tpd", "nasa"))
     has_inter = any(a.interactions_eV for a in ctx["adsorbates"].values())
     main_fug = conditions.fugacity if conditions is not None else "ideal"
     inter, fugs, cov = ("both" if has_inter else "off"), (main_fug,), True
@@ -496,6 +503,9 @@ def read_outputs(root, ctx, conditions):
         temps = _temperatures(mc, required=False) or (conditions.temperatures_K if conditions else ())
         if base is not None and temps:
             comparison = ComparisonSpec(name, tuple(sorted(params.items())), tuple(temps), state)
+    from adsorb.case_outputs import read_isobars, read_isosteric_heats, read_nasa, read_tpd
+
     return OutputSpec(coverages=cov if cov is not None else True, interactions=inter or "off", fugacities=fugs,
                       curves=tuple(curves), comparison=comparison, thermo_tables=t.boolean("thermo_tables", default=True),
-                      plots=t.boolean("plots", default=True))
+                      plots=t.boolean("plots", default=True), isobars=read_isobars(t, ctx, conditions),
+                      isosteric_heats=read_isosteric_heats(t, ctx), tpd=read_tpd(t, ctx), nasa=read_nasa(t, ctx))

@@ -23,6 +23,7 @@ import numpy as np
 from adsorb import constants as C
 from adsorb.errors import InputError
 from adsorb.fileout import write_json_atomic, write_text_atomic
+from adsorb.report_outputs import output_assumptions, output_sections, validate_outputs
 
 __all__ = ["SCHEMA", "ASSUMPTIONS", "CAUTIONS", "results_document", "validate_results", "write_results"]
 
@@ -188,7 +189,8 @@ def results_document(result, *, files=None) -> dict:
         "maps": [_curve(c) for c in result.curves if c.kind == "map"],
         "pathways": pathways,
         "model_comparison": None if result.comparison is None else result.comparison.as_dict(),
-        "assumptions": list(ASSUMPTIONS),
+        **output_sections(result, (files or {}).get("nasa")),
+        "assumptions": list(ASSUMPTIONS) + output_assumptions(result),
         "cautions": list(CAUTIONS),
         "warnings": list(result.warnings),
         "notes": list(result.notes),
@@ -279,6 +281,7 @@ def validate_results(data) -> None:
         bad += _check_scale(i, p)
     if not data["assumptions"] or not data["cautions"]:
         bad.append("assumptions and cautions: expected non-empty lists")
+    bad += validate_outputs(data)
     if bad:
         raise InputError("results: " + "; ".join(bad))
 
@@ -387,10 +390,13 @@ def write_results(result, folder) -> dict:
 
     folder = Path(folder)
     folder.mkdir(parents=True, exist_ok=True)
+    from adsorb.report_outputs import write_output_files
+
     tables = write_tables(result, folder) if result.case.outputs.thermo_tables else []
+    extra, nasa = write_output_files(result, folder, tables=result.case.outputs.thermo_tables)
     plots = write_plots(result, folder) if result.case.outputs.plots else []
-    doc = results_document(result, files={"tables": tables, "plots": [p for _, _, p in plots],
-                                          "report": "report.html", "results": "results.json"})
+    doc = results_document(result, files={"tables": tables + extra, "plots": [p for _, _, p in plots],
+                                          "report": "report.html", "results": "results.json", "nasa": nasa})
     validate_results(doc)
     write_json_atomic(folder / "results.json", doc)
     write_html(doc, plots, folder / "report.html", case_text=result.case.path.read_text(encoding="utf-8"))

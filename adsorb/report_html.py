@@ -3,8 +3,9 @@
 Images are embedded as base64 PNG data URIs; the page references no external
 file, script or style sheet. Sections (docs/report.md): summary, cautions,
 inputs (the case file echoed, input files with SHA-256), conditions, species,
-equilibria, coverages, isotherms and maps, free-energy diagrams, model
-comparison, assumptions, warnings, versions.
+equilibria, coverages, isotherms and maps, isobars, isosteric heats, TPD,
+NASA polynomials, free-energy diagrams, model comparison, assumptions,
+warnings, versions.
 """
 
 from __future__ import annotations
@@ -13,6 +14,7 @@ import base64
 from html import escape
 from pathlib import Path
 
+from adsorb.constants import EV_TO_KJ_MOL
 from adsorb.fileout import write_text_atomic
 
 __all__ = ["render_html", "write_html"]
@@ -124,6 +126,7 @@ def render_html(doc, images) -> str:
         out.append("<h2>Isotherms and coverage maps</h2>")
         for title in [k for k in images if k.startswith(("Isotherms", "Coverage map"))]:
             figure(title)
+    _outputs(doc, out, images, figure)
     if doc["pathways"]:
         out.append("<h2>Free-energy diagrams</h2>")
         for p in doc["pathways"]:
@@ -168,6 +171,67 @@ def render_html(doc, images) -> str:
     out.append(f"<p><small>Generated {escape(doc['created_utc'])} by adsorb {escape(doc['versions']['adsorb'])}, "
                f"{escape(doc['schema'])}.</small></p></body></html>")
     return "\n".join(out)
+
+
+def _outputs(doc, out, images, figure):
+    """Sections of the optional outputs: isobars, isosteric heats, TPD, NASA polynomials."""
+    if doc.get("isobars"):
+        out.append("<h2>Isobars</h2><p>Coverages vs temperature at fixed pressures of one gas; the other gases "
+                   "stay at their partial pressures.</p>")
+        for title in [k for k in images if k.startswith("Isobars")]:
+            figure(title)
+    if doc.get("isosteric_heats"):
+        out.append("<h2>Isosteric heats</h2><p>q_st = k T² (∂ ln p/∂T)_θ (Clausius–Clapeyron at constant "
+                   "coverage), per gas molecule, for each adsorbate alone on its surface. Without interactions "
+                   "it equals −ΔH_ads; mean-field interactions ε lower it by εθ (2εθ per molecule for dissociative "
+                   "adsorption).</p>")
+        for title in [k for k in images if k.startswith("Isosteric heat")]:
+            figure(title)
+        for h in doc["isosteric_heats"]:
+            cols = _pick(len(h["coverage_ML"]), 5)
+            out.append(f"<h3>{escape(h['adsorbate'])} from {escape(h['gas'])}, "
+                       f"{'mean-field interactions' if h['interactions'] else 'no lateral interactions'}</h3>")
+            out.append(_table(["T (K)", "−ΔH_ads (kJ/mol)"] + [f"q_st at θ = {h['coverage_ML'][c]:.3g} ML (kJ/mol)"
+                                                              for c in cols],
+                              [[t, h["minus_delta_enthalpy_eV"][a] * EV_TO_KJ_MOL] + [h["isosteric_heat_kJ_mol"][a][c] for c in cols]
+                               for a, t in enumerate(h["temperature_K"])]))
+    if doc.get("tpd"):
+        out.append("<h2>Temperature-programmed desorption</h2>")
+        first = doc["tpd"][0]
+        out.append(f"<p>First-order Polanyi–Wigner desorption, linear ramp, no re-adsorption. Transition state: "
+                   f"{escape(first['transition_state'])}. {escape(first['desorption_energy_definition'])}. "
+                   "Redhead (Vacuum 1962, 12, 203): exact first-order peak condition and his approximate formula "
+                   "with the prefactor ν(Tp) of the simulation, and with the conventional 10^13 s^-1.</p>")
+        for run in doc["tpd"]:
+            inter = ", mean-field interactions" if run["interactions"] else ""
+            out.append(f"<h3>{escape(run['adsorbate'])} → {escape(run['gas'])}: β = {run['heating_rate_K_s']:g} K/s, "
+                       f"E_d = {run['desorption_energy_eV']:.4g} eV{escape(inter)}</h3>")
+            figure(f"TPD {run['entry']}: {run['adsorbate']}{inter}")
+            nu = run["prefactor"]
+            out.append(_table(["T (K)", "ν(T) (1/s)"], [[nu["temperature_K"][i], nu["prefactor_s"][i]]
+                                                        for i in _pick(len(nu["temperature_K"]), 5)]))
+            out.append(_table(["θ0 (ML)", "Tp (K)", "θ at peak (ML)", "E_d at peak (eV)", "ν(Tp) (1/s)",
+                               "apparent ν (1/s)", "E exact, ν(Tp) (eV)", "E Redhead, ν(Tp) (eV)",
+                               "E Redhead, 1e13 (eV)"],
+                              [[sp["initial_coverage_ML"], sp["peak_temperature_K"], sp["peak_coverage_ML"],
+                                sp["energy_at_peak_eV"], sp["prefactor_at_peak_s"], sp["apparent_prefactor_s"],
+                                sp["redhead_comparison"]["energy_exact_eV"], sp["redhead_comparison"]["energy_redhead_eV"],
+                                sp["redhead_comparison"]["redhead_energy_1e13_eV"]] for sp in run["spectra"]], 0))
+    if doc.get("nasa"):
+        out.append("<h2>NASA polynomials</h2><p>Two-range 7-coefficient fits (McBride, Gordon and Reno, NASA "
+                   "TM-4513, 1993) of the model tables, Cp, dCp/dT, H and S continuous at T_mid. Largest "
+                   "deviations from the fitted table in each range. H keeps the table's zero (not a formation "
+                   "enthalpy).</p>")
+        rows = []
+        for name, d in doc["nasa"].items():
+            for rng in ("low", "high"):
+                e = d["fit_errors"][rng]
+                rows.append([name, d["kind"], rng, e["t_min_K"], e["t_max_K"], e["cp_max_abs_J_mol_K"],
+                             100 * e["cp_max_rel"], e["h_max_abs_kJ_mol"], e["s_max_abs_J_mol_K"],
+                             ", ".join(d.get("files", []))])
+        out.append(_table(["species", "kind", "range", "T min (K)", "T max (K)", "max |ΔCp| (J/mol/K)",
+                           "max |ΔCp|/Cp (%)", "max |ΔH| (kJ/mol)", "max |ΔS| (J/mol/K)", "files"], rows, 3))
+
 
 
 def write_html(doc, plots, path, *, case_text=""):

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["plot_coverages", "plot_curve", "write_plots"]
+__all__ = ["plot_coverages", "plot_curve", "plot_isobars", "write_plots"]
 
 _STYLES = {("ideal", False): "-", ("ideal", True): "--", ("peng-robinson", False): ":",
            ("peng-robinson", True): "-."}
@@ -86,6 +86,39 @@ def plot_curve(run, path, *, title=""):
     return fig
 
 
+def plot_isobars(runs, path, *, title=""):
+    """Isobars θ(T) at fixed pressures of one gas: one panel per interaction variant, one line style per pressure."""
+    from adsorb.fileout import write_figure
+
+    fig = _figure((4.6 * len(runs) + 1.0, 4.2), layout="constrained")
+    axes = fig.subplots(1, len(runs), squeeze=False)[0]
+    styles = ["-", "--", ":", "-."]
+    for ax, run in zip(axes, runs):
+        for b, p in enumerate(run.pressure_Pa):
+            for i, s in enumerate(run.species):
+                ax.plot(run.temperature_K, run.coverage[i, :, b], color=f"C{i % 10}", ls=styles[b % 4],
+                        label=f"{s}, p({run.gas}) = {p / 1e5:g} bar", gid=f"isobar:{s}")
+        ax.set_xlabel("T (K)")
+        ax.set_ylabel("coverage θ (ML)")
+        ax.set_ylim(-0.02, 1.02)
+        ax.set_title("mean-field interactions" if run.interactions else "no lateral interactions", fontsize=9)
+        ax.legend(fontsize=6, frameon=False)
+    fig.suptitle(title, fontsize=10)
+    write_figure(fig, path)
+    return fig
+
+
+def _groups(runs, key):
+    """Consecutive runs sharing ``key(run)`` (the interaction variants of one case-file entry)."""
+    out = []
+    for run in runs:
+        if out and key(out[-1][0]) == key(run):
+            out[-1].append(run)
+        else:
+            out.append([run])
+    return out
+
+
 def write_plots(result, folder) -> list:
     """Every plot of a study into ``folder``; returns (title, stem, [png, svg]) triples."""
     from adsorb.report import slug
@@ -105,6 +138,39 @@ def write_plots(result, folder) -> list:
         what = "Isotherms" if c.kind == "isotherm" else "Coverage map"
         plot_curve(c, folder / stem, title=f"{what}: {c.gas} on {c.surface}")
         add(f"{what} on {c.surface} vs p({c.gas})" + (", mean-field interactions" if c.interactions else ""), stem)
+    for runs in _groups(result.isobars, lambda c: c.entry):
+        c = runs[0]
+        stem = f"isobars_{c.entry}_{slug(c.gas)}"
+        plot_isobars(runs, folder / stem, title=f"Isobars: {c.gas} on {c.surface} (other gases at their partial pressures)")
+        add(f"Isobars {c.entry} on {c.surface}, fixed p({c.gas})", stem)
+    if result.isosteric_heats:
+        from adsorb.isotherms import plot_isosteric_heat
+
+        for runs in _groups(result.isosteric_heats, lambda h: h.entry):
+            h = runs[0]
+            stem = f"isosteric_heat_{h.entry}_{slug(h.adsorbate)}"
+            heats = [r.heat_eV[a] for r in runs for a in range(r.temperature_K.size)]
+            labels = [f"{t:g} K, {'mean-field interactions' if r.interactions else 'no interactions'}"
+                      for r in runs for t in r.temperature_K]
+            per = f" (per {h.gas} molecule)" if h.dissociative else ""
+            plot_isosteric_heat(h.coverage_ML, np.array(heats), folder / stem, labels=labels,
+                                linestyles=["--" if r.interactions else "-" for r in runs for _ in r.temperature_K],
+                                title=f"Isosteric heat of {h.adsorbate} from {h.gas}{per}")
+            add(f"Isosteric heat {h.entry}: {h.adsorbate}", stem)
+    if result.tpd:
+        import matplotlib.pyplot as plt
+
+        from adsorb.tpd import plot_tpd
+
+        for run in result.tpd:
+            stem = f"tpd_{run.spec.entry}_{slug(run.spec.adsorbate)}" + ("_interacting" if run.spec.interactions else "")
+            inter = ", mean-field interactions" if run.spec.interactions else ""
+            fig = plot_tpd(list(run.spectra), folder / stem,
+                           labels=[f"θ0 = {r.initial_coverage:g} ML, Tp = {r.peak_temperature_K:.1f} K"
+                                   for r in run.spectra],
+                           title=f"TPD of {run.spec.adsorbate}, β = {run.spec.heating_rate_K_s:g} K/s{inter}")
+            plt.close(fig)          # plot_tpd draws with pyplot: release the figure
+            add(f"TPD {run.spec.entry}: {run.spec.adsorbate}{inter}", stem)
     if result.pathways:
         from adsorb.diagrams import plot_pathways
 

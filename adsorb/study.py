@@ -9,7 +9,8 @@ and :class:`adsorb.adsorbate.Adsorbate` for thermochemistry,
 :func:`adsorb.coverage.site_coverages` for coverages,
 :mod:`adsorb.diagrams` for free-energy diagrams (computational hydrogen
 electrode of Nørskov et al., J. Phys. Chem. B 2004, 108, 17886) and
-:func:`adsorb.model_choice.compare_models` for the model comparison. Nothing
+:func:`adsorb.model_choice.compare_models` for the model comparison; isosteric heats, TPD spectra
+and NASA fits come from :mod:`adsorb.study_outputs`. Nothing
 is printed; warnings raised by the library are collected in
 :attr:`StudyResult.warnings`.
 """
@@ -112,6 +113,7 @@ class CurveRun:
     pressure_Pa: np.ndarray
     coverage: np.ndarray
     empty: np.ndarray
+    entry: int = 0                    # index of the case-file entry of its kind
 
 
 @dataclass(frozen=True)
@@ -149,6 +151,10 @@ class StudyResult:
     comparison: object
     warnings: tuple = ()
     notes: tuple = field(default=())
+    isobars: tuple = ()               # CurveRun of kind "isobar"
+    isosteric_heats: tuple = ()       # adsorb.study_outputs.IsostericRun
+    tpd: tuple = ()                   # adsorb.study_outputs.TPDRun
+    nasa: tuple = ()                  # adsorb.study_outputs.NasaRun
 
 
 class _Study:
@@ -260,7 +266,7 @@ class _Study:
                              temperature=temps[:, None], sites_per_species=np.array([s.sites for s in spec]))
         return CurveRun(kind=cs.kind, surface=cs.surface, gas=cs.gas, species=names, interactions=cs.interactions,
                         fugacity=fug, temperature_K=temps, pressure_Pa=grid, coverage=sol.coverage,
-                        empty=np.asarray(sol.empty))
+                        empty=np.asarray(sol.empty), entry=cs.entry)
 
     # ---------------------------------------------------------------- pathways
     def pathway(self, ps):
@@ -376,7 +382,7 @@ def run_study(case) -> StudyResult:
         coverages = []
         surfaces = sorted({a.surface for a in case.adsorbates.values() if a.in_coverages})
         ideal_used = (out.coverages and surfaces and "ideal" in out.fugacities) or (
-            out.curves and case.conditions.fugacity == "ideal")
+            (out.curves or out.isobars) and case.conditions.fugacity == "ideal")
         if ideal_used:
             extra += s.compressibility_check(temps)
         if out.coverages and surfaces:
@@ -386,12 +392,18 @@ def run_study(case) -> StudyResult:
                     for inter in flags:
                         coverages.append(s.coverages(surface, temps, fug, inter))
         curves = tuple(s.curve(c) for c in out.curves)
+        isobars = tuple(s.curve(c) for c in out.isobars)
         pathways = tuple(s.pathway(p) for p in case.pathways.values())
         comparison = s.comparison(out.comparison) if out.comparison is not None else None
+        from adsorb.study_outputs import isosteric_run, nasa_runs, tpd_run
+
+        heats = tuple(isosteric_run(s, h) for h in out.isosteric_heats)
+        spectra = tuple(tpd_run(s, t) for t in out.tpd)
+        nasa = nasa_runs(s, out.nasa) if out.nasa is not None else ()
     messages = [str(w.message) for w in caught]
     for table in list(gas_tables.values()) + list(ads_tables.values()):
         messages += [w for w in table.warnings]
     return StudyResult(case=case, temperatures_K=temps, gas_tables=gas_tables, adsorbate_tables=ads_tables,
                        equilibria=equilibria, coverages=tuple(coverages), curves=curves, pathways=pathways,
                        comparison=comparison, warnings=tuple(dict.fromkeys(messages + extra)),
-                       notes=tuple(s.notes))
+                       notes=tuple(s.notes), isobars=isobars, isosteric_heats=heats, tpd=spectra, nasa=nasa)

@@ -219,3 +219,81 @@ def test_scale_refused_on_thermal_pathway(tmp_path):
     assert len(info.value.problems) == 2
     assert "pathways.desorption.potential_scale: potential_scale on a thermal pathway" in joined
     assert "pathways.desorption.pH: pH on a thermal pathway" in joined
+
+
+def test_optional_outputs_of_the_ammonia_demo():
+    """Isobars (one per interaction variant), isosteric heats, TPD and NASA sections are read into specs."""
+    out = load_case(CASES / "ammonia_mx0001.toml").outputs
+    assert [(c.kind, c.gas, c.interactions, c.entry) for c in out.isobars] == [("isobar", "H2", False, 0),
+                                                                              ("isobar", "H2", True, 0)]
+    assert out.isobars[1].pressures_Pa == pytest.approx((1e5, 75e5), rel=1e-12)      # 1 bar = 1e5 Pa
+    assert [(h.adsorbate, h.interactions) for h in out.isosteric_heats] == [("H*", False), ("H*", True), ("NH3*", False)]
+    assert out.isosteric_heats[1].self_interaction_eV == 0.10 and out.isosteric_heats[1].dissociative
+    assert len(out.isosteric_heats[2].coverages_ML) == 49 and max(out.isosteric_heats[2].coverages_ML) < 1
+    (tpd,) = out.tpd
+    assert (tpd.adsorbate, tpd.gas, tpd.heating_rate_K_s, tpd.initial_coverages_ML) == ("NH3*", "NH3", 2.0,
+                                                                                       (0.25, 0.5, 1.0))
+    assert tpd.site_area_A2 == 6.31 and not tpd.interactions
+    assert out.nasa.species == ("H2", "N2", "NH3") and out.nasa.temperature_mid_K == 1000.0
+    assert out.nasa.temperatures_K[0] == 300.0 and out.nasa.temperatures_K[-1] == 3000.0
+
+
+_TPD = ('[[outputs.tpd]]\nadsorbate = "{ads}"\nheating_rate_K_s = {beta}\ninitial_coverages_ML = [{theta}]\n'
+        'temperature_start_K = {t0}\ntemperature_end_K = {t1}\n{extra}\n')
+
+
+@pytest.mark.parametrize("snippet, key, words", [
+    (_TPD.format(ads="H*", beta=2, theta=0.5, t0=100, t1=400, extra=""), "outputs.tpd.1.adsorbate", "dissociative"),
+    (_TPD.format(ads="NH2*", beta=2, theta=0.5, t0=100, t1=400, extra=""), "outputs.tpd.1.adsorbate",
+     "no gas precursor"),
+    (_TPD.format(ads="NH3*", beta=-2, theta=0.5, t0=100, t1=400, extra=""), "outputs.tpd.1.heating_rate_K_s",
+     "> 0 in K/s"),
+    (_TPD.format(ads="NH3*", beta=2, theta=1.5, t0=100, t1=400, extra=""), "outputs.tpd.1.initial_coverages_ML.0",
+     "(0, 1] ML"),
+    (_TPD.format(ads="NH3*", beta=2, theta=0.5, t0=400, t1=300, extra=""), "outputs.tpd.1.temperature_end_K",
+     "end > start"),
+    (_TPD.format(ads="NH3*", beta=2, theta=0.5, t0=100, t1=400, extra='interactions = "on"'),
+     "outputs.tpd.1.interactions", "no interaction with itself"),
+    ('[[outputs.isosteric_heats]]\nadsorbate = "NH3"\ntemperatures_K = [300.0]\n', "outputs.isosteric_heats.2.adsorbate",
+     "did you mean 'NH3*'"),
+    ('[[outputs.isosteric_heats]]\nadsorbate = "N*"\ntemperatures_K = [300.0]\n'
+     'coverage_range_ML = { start = 0.1, stop = 1.0, count = 5 }\n', "outputs.isosteric_heats.2.coverage_range_ML.stop",
+     "below 1 ML"),
+    ('[[outputs.isosteric_heats]]\nadsorbate = "N*"\ntemperatures_K = [300.0]\ninteractions = "sometimes"\n',
+     "outputs.isosteric_heats.2.interactions", "'off', 'on' or 'both'"),
+    ('[[outputs.isobars]]\ngas = "H2"\npressures = [1.0]\ntemperatures_K = [500.0]\n', "outputs.isobars.1.pressures",
+     "no unit"),
+    ('[[outputs.isobars]]\ngas = "NH2"\npressures_bar = [1.0]\ntemperatures_K = [500.0]\n', "outputs.isobars.1.gas",
+     "not a precursor"),
+])
+def test_optional_output_problems_are_one_line(tmp_path, snippet, key, words):
+    """Each mistake in a new output section gives one line naming the file and the key path."""
+    shutil.copytree(CASES, tmp_path / "cases")
+    path = tmp_path / "cases" / "ammonia_mx0001.toml"
+    text = path.read_text()
+    path.write_text(text.replace("# NASA 7-coefficient", snippet + "\n# NASA 7-coefficient"))
+    with pytest.raises(CaseError) as info:
+        load_case(path)
+    assert len(info.value.problems) == 1, info.value.problems
+    line = info.value.problems[0]
+    assert str(path) in line and key in line and words in line and "expected" in line
+
+
+@pytest.mark.parametrize("edit, key, words", [
+    (('species = ["H2", "N2", "NH3"]', 'species = ["H2", "N2", "CH4"]'), "outputs.nasa.species.2", "unknown species"),
+    (("temperature_mid_K = 1000.0", "temperature_mid_K = 3500.0"), "outputs.nasa.temperature_mid_K",
+     "at least 8 temperatures on each side"),
+    (("temperature_mid_K = 1000.0", 'temperature_mid_K = 1000.0\nobjective = "minmax"'), "outputs.nasa.objective",
+     "did you mean 'minimax'"),
+    (("temperature_mid_K = 1000.0", 'temperature_mid_K = "middle"'), "outputs.nasa.temperature_mid_K",
+     "a finite number in K"),
+])
+def test_nasa_section_problems(tmp_path, edit, key, words):
+    """[outputs.nasa]: unknown species, a common temperature outside the grid, a misspelt objective."""
+    shutil.copytree(CASES, tmp_path / "cases")
+    path = tmp_path / "cases" / "ammonia_mx0001.toml"
+    path.write_text(path.read_text().replace(*edit))
+    with pytest.raises(CaseError) as info:
+        load_case(path)
+    assert len(info.value.problems) == 1, info.value.problems
+    assert key in info.value.problems[0] and words in info.value.problems[0]

@@ -256,3 +256,174 @@ def test_validator_checks_the_potential_scale(runs):
     broken["pathways"][i]["potential_scale"] = "NHE"
     with pytest.raises(InputError, match="potential_scale"):
         validate_results(broken)
+
+
+def test_isosteric_heats_clausius_clapeyron(runs):
+    """Without interactions q_st(θ) = -ΔH_ads at every coverage (Clausius–Clapeyron = van 't Hoff for a Langmuir
+    layer, adsorbate-models.md §6), and -ΔH_ads equals the equilibria entry at the same temperature; with the
+    mean-field H*-H* repulsion ε, q_st = -ΔH_ads - 2εθ per H2 (Fowler–Guggenheim, dissociative)."""
+    _, doc = runs["ammonia_mx0001.toml"]
+    heats = {(h["adsorbate"], h["interactions"]): h for h in doc["isosteric_heats"]}
+    assert set(heats) == {("H*", False), ("H*", True), ("NH3*", False)}
+    eq = doc["equilibria"]["H*"]
+    for (name, inter), h in heats.items():
+        q = np.array(h["isosteric_heat_eV"])
+        theta = np.array(h["coverage_ML"])
+        mdh = np.array(h["minus_delta_enthalpy_eV"])[:, None]
+        expected = mdh - ((2 if h["dissociative"] else 1) * h["self_interaction_eV"] * theta if inter else 0.0 * theta)
+        np.testing.assert_allclose(q, expected, rtol=1e-6, atol=0)
+        np.testing.assert_allclose(h["isosteric_heat_kJ_mol"], q * C.EV_TO_KJ_MOL, rtol=1e-12)
+    for k, t in enumerate(heats[("H*", False)]["temperature_K"]):
+        i = eq["temperature_K"].index(t)
+        assert heats[("H*", False)]["minus_delta_enthalpy_eV"][k] == pytest.approx(-eq["delta_enthalpy_eV"][i], rel=1e-12)
+    assert heats[("H*", True)]["self_interaction_eV"] == 0.10
+
+
+def test_isobars_match_the_coverages_and_langmuir(runs):
+    """At p(H2) = 75 bar (the case's own pressure) the isobar equals the coverage-vs-T run; at 1 bar it follows the
+    competitive Langmuir closed form with the reported K (Langmuir 1918)."""
+    _, doc = runs["ammonia_mx0001.toml"]
+    iso = {r["interactions"]: r for r in doc["isobars"]}
+    assert set(iso) == {False, True} and iso[False]["pressure_Pa"] == [1e5, 75e5]
+    cov = {(r["fugacity"], r["interactions"]): r for r in doc["coverages"]}
+    eq, p = doc["equilibria"], doc["conditions"]["partial_pressures_Pa"]
+    for inter in (False, True):
+        ref = cov[("ideal", inter)]
+        for k, t in enumerate(ref["temperature_K"]):
+            if t not in iso[inter]["temperature_K"]:
+                continue
+            a = iso[inter]["temperature_K"].index(t)
+            for s in ref["species"]:
+                assert iso[inter]["coverage_ML"][s][a][1] == pytest.approx(ref["coverage_ML"][s][k], rel=1e-8, abs=1e-14)
+            if not inter:
+                c = {"H*": math.sqrt(eq["H*"]["equilibrium_constant_per_Pa"][k] * 1e5),
+                     "N*": math.sqrt(eq["N*"]["equilibrium_constant_per_Pa"][k] * p["N2"]),
+                     "NH3*": eq["NH3*"]["equilibrium_constant_per_Pa"][k] * p["NH3"]}
+                for s, v in c.items():
+                    assert iso[False]["coverage_ML"][s][a][0] == pytest.approx(v / (1 + sum(c.values())), rel=1e-9)
+
+
+def test_tpd_of_nh3(runs):
+    """First order, constant E_d: Tp does not depend on θ0 (Redhead 1962); the peak obeys the exact first-order
+    condition d ln k/dT = k/β with k = ν(T) exp(-E_d/kT); ν_app = (βE/kTp²) exp(E/kTp); Redhead's formula with
+    the conventional 1e13 s^-1 is E = kTp[ln(1e13 Tp/β) - 3.64] and underestimates E_d for a gas-like TS."""
+    folder, doc = runs["ammonia_mx0001.toml"]
+    (run,) = doc["tpd"]
+    assert run["order"] == 1 and run["adsorbate"] == "NH3*" and run["energy_coefficients_eV"] == [run["desorption_energy_eV"]]
+    e = run["desorption_energy_eV"]
+    eq = doc["equilibria"]["NH3*"]
+    assert e == pytest.approx(-(eq["delta_energy_eV"] + eq["delta_zpe_eV"][0]), rel=1e-12)   # E_d = -(ΔE + ΔZPE)
+    beta = run["heating_rate_K_s"]
+    tps = [sp["peak_temperature_K"] for sp in run["spectra"]]
+    assert max(tps) - min(tps) < 1e-6
+    for sp in run["spectra"]:
+        tp, nu = sp["peak_temperature_K"], sp["prefactor_at_peak_s"]
+        assert sp["apparent_prefactor_s"] == pytest.approx(beta * e / (C.kB_eV * tp**2) * math.exp(e / (C.kB_eV * tp)),
+                                                           rel=1e-9)
+        assert sp["redhead_comparison"]["redhead_energy_1e13_eV"] == pytest.approx(
+            C.kB_eV * tp * (math.log(1e13 * tp / beta) - 3.64), rel=1e-12)
+        assert sp["redhead_comparison"]["redhead_energy_1e13_eV"] < e < 2 * e
+        assert sp["desorbed_ML"] == pytest.approx(sp["initial_coverage_ML"], rel=1e-6)
+        assert 1e14 < nu < 1e17          # gas-like TS of a small molecule: 1e15-1e19 s^-1 range (Tait et al. 2005)
+    # ν(T) of the transition state is T-dependent, so the apparent constant prefactor differs from ν(Tp)
+    assert run["spectra"][0]["apparent_prefactor_s"] != pytest.approx(run["spectra"][0]["prefactor_at_peak_s"], rel=1e-3)
+    rows = (folder / "tpd_0_NH3_ads_ideal_layer.csv").read_text().splitlines()
+    assert rows[0] == "initial_coverage_ML,temperature_K,coverage_ML,rate_ML_per_K,rate_ML_per_s"
+    assert len(rows) == 1 + 3 * len(run["spectra"][0]["temperature_K"])
+
+
+def test_tpd_prefactor_is_detailed_balance_with_k():
+    """The 2D-gas TS rate equals the detailed-balance rate of the site balance with Hertz–Knudsen adsorption,
+    sticking 1 (adsorbate-models.md §5.2): ν(T) e^(-E_d/kT) = A_site p° e^(ΔG/kT) / sqrt(2π m kT)."""
+    from adsorb.case import load_case
+    from adsorb.study import _Study
+    from adsorb.study_outputs import tst_prefactor
+
+    case = load_case(CASES / "ammonia_mx0001.toml")
+    s = _Study(case)
+    spec = case.outputs.tpd[0]
+    nu, e_d, mass = tst_prefactor(s, spec)
+    t = np.array([110.0, 187.3, 264.9, 349.0])        # off the spline knots
+    dg = s.equilibrium("NH3*", t).terms.delta_gibbs
+    flux = spec.site_area_A2 * C.angstrom**2 * C.P_STANDARD / np.sqrt(2 * np.pi * mass * C.amu * C.k_B * t)
+    np.testing.assert_allclose(nu(t) * np.exp(-e_d / (C.kB_eV * t)), flux * np.exp(dg / (C.kB_eV * t)), rtol=1e-7)
+
+
+def test_tpd_with_repulsion_moves_the_peak_down(tmp_path):
+    """With a mean-field repulsion E_d(θ) = E_d - εθ the first-order peak moves to lower T as θ0 rises (Redhead 1962:
+    coverage-dependent energies shift Tp), and with ε = 0 it would not."""
+    import shutil
+
+    from adsorb.case import load_case
+    from adsorb.study import run_study
+
+    shutil.copytree(CASES, tmp_path / "cases")
+    path = tmp_path / "cases" / "ammonia_mx0001.toml"
+    text = path.read_text().replace('model = "harmonic"\n', 'model = "harmonic"\ninteractions_eV = { "NH3*" = 0.1 }\n', 1)
+    text = text.replace("temperature_end_K = 350.0", 'temperature_end_K = 350.0\ninteractions = "both"')
+    path.write_text(text)
+    result = run_study(load_case(path))
+    by = {r.spec.interactions: r for r in result.tpd}
+    assert by[True].energy_coefficients_eV == (by[False].desorption_energy_eV, -0.1)
+    tp = [r.peak_temperature_K for r in by[True].spectra]
+    assert tp[0] > tp[1] > tp[2] and tp[0] < by[False].spectra[0].peak_temperature_K
+    for r in by[True].spectra:           # E_d at the peak follows the coverage there
+        assert r.energy_at_peak_eV == pytest.approx(by[False].desorption_energy_eV - 0.1 * r.peak_coverage, rel=1e-12)
+
+
+def test_nasa_fits_of_the_gases(runs):
+    """NASA-7 fits of the RRHO tables: JSON and CSV per gas that read back exactly; the N2 polynomial gives JANAF
+    S°(500 K) = 206.739 and S°(1000 K) = 228.170 J/mol/K (NIST-JANAF N-023) within the RRHO tolerance plus the fit
+    (0.1 and 0.15 J/mol/K); the fit errors are reported for both ranges."""
+    from adsorb.nasa import read_nasa_csv, read_nasa_json
+
+    folder, doc = runs["ammonia_mx0001.toml"]
+    assert set(doc["nasa"]) == {"H2", "N2", "NH3"}
+    for name, d in doc["nasa"].items():
+        assert d["kind"] == "gas" and d["pressure_Pa"] == 1e5 and (d["t_low_K"], d["t_mid_K"], d["t_high_K"]) == (
+            300.0, 1000.0, 3000.0)
+        assert d["files"] == [f"nasa_{name}.json", f"nasa_{name}.csv"] == doc["files"]["nasa"][name]
+        assert set(d["fit_errors"]) == {"low", "high"} and d["fit_errors"]["low"]["cp_max_rel"] < 0.01
+        poly = read_nasa_json(folder / d["files"][0])
+        assert list(poly.low) == d["low"] and list(read_nasa_csv(folder / d["files"][1]).high) == d["high"]
+        th = doc["gases"][name]["thermo_1bar"]
+        t = np.array(th["temperature_K"])
+        worst = max(d["fit_errors"][r]["s_max_abs_J_mol_K"] for r in ("low", "high"))
+        np.testing.assert_allclose(C.to_j_per_mol_k(poly.entropy(t)), th["entropy_J_mol_K"], rtol=0, atol=worst + 1e-9)
+    n2 = read_nasa_json(folder / "nasa_N2.json")
+    assert C.to_j_per_mol_k(n2.entropy(500.0)) == pytest.approx(206.739, abs=0.1)
+    assert C.to_j_per_mol_k(n2.entropy(1000.0)) == pytest.approx(228.170, abs=0.15)
+
+
+def test_report_has_the_new_sections(runs):
+    """report.html has the isobar, isosteric-heat, TPD and NASA sections with their plots embedded."""
+    folder, doc = runs["ammonia_mx0001.toml"]
+    text = (folder / "report.html").read_text(encoding="utf-8")
+    for head in ("<h2>Isobars</h2>", "<h2>Isosteric heats</h2>", "<h2>Temperature-programmed desorption</h2>",
+                 "<h2>NASA polynomials</h2>"):
+        assert head in text
+    for stem in ("isobars_0_H2", "isosteric_heat_0_H_ads", "isosteric_heat_1_NH3_ads", "tpd_0_NH3_ads"):
+        assert [f"{stem}.png", f"{stem}.svg"] in doc["files"]["plots"]
+    titles = ["Isobars 0 on Mx(0001), fixed p(H2)", "Isosteric heat 0: H*", "Isosteric heat 1: NH3*", "TPD 0: NH3*"]
+    for title in titles:
+        assert f"<figcaption>{title}</figcaption>" in text.replace("&#x27;", "'")
+    assert any("Clausius-Clapeyron" in a for a in doc["assumptions"]) and any("TPD" in a for a in doc["assumptions"])
+
+
+def test_validator_checks_the_new_sections(runs):
+    """validate_results refuses a wrong-shaped isosteric heat, a TPD coverage above θ0, a NASA fit with 6
+    coefficients and an isobar coverage above 1; documents of earlier versions without these keys still pass."""
+    _, doc = runs["ammonia_mx0001.toml"]
+    for change, match in [(lambda d: d["isosteric_heats"][0]["isosteric_heat_eV"].pop(), "isosteric_heats.0"),
+                          (lambda d: d["tpd"][0]["spectra"][1]["coverage_ML"].__setitem__(0, 0.9), "tpd.0.spectra.1"),
+                          (lambda d: d["nasa"]["N2"]["low"].pop(), "nasa.N2"),
+                          (lambda d: d["isobars"][0]["coverage_ML"]["H*"][0].__setitem__(0, 1.2), "isobars.0"),
+                          (lambda d: d.__setitem__("tpd", {}), "tpd: expected list")]:
+        broken = json.loads(json.dumps(doc))
+        change(broken)
+        with pytest.raises(InputError, match=match):
+            validate_results(broken)
+    older = json.loads(json.dumps(doc))
+    for key in ("isobars", "isosteric_heats", "tpd", "nasa"):
+        del older[key]
+    validate_results(older)
