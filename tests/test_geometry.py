@@ -327,7 +327,8 @@ def test_symmetry_operations_that_do_not_form_a_group_are_reported():
 
 def test_rotation_group_size_guard():
     # the guard against a runaway closure, exercised with a small limit on CH4 (order 12)
-    from adsorb.geometry import _principal, _rotation_group
+    from adsorb.geometry.molecule import _principal
+    from adsorb.geometry.symmetry import _rotation_group
 
     ch4 = molecule("CH4")
     _, axes, rel = _principal(ch4.get_masses(), ch4.positions)
