@@ -108,7 +108,8 @@ def output_assumptions(result) -> list:
 
 
 def write_output_files(result, folder, *, tables=True) -> tuple:
-    """CSV tables of isobars, isosteric heats and TPD spectra (if ``tables``), and the NASA JSON + CSV files.
+    """CSV tables of isobars, isosteric heats and TPD spectra (if ``tables``); the NASA JSON + CSV files and
+    ``nasa_fit_errors.csv`` (always, when fits were asked for).
 
     Returns (list of table names, {species: [json name, csv name]}).
     """
@@ -139,6 +140,12 @@ def write_output_files(result, folder, *, tables=True) -> tuple:
         n.polynomial.to_json(folder / f"{stem}.json")
         n.polynomial.to_csv(folder / f"{stem}.csv")
         nasa[n.species] = [f"{stem}.json", f"{stem}.csv"]
+    if result.nasa:
+        keys = ("t_min_K", "t_max_K", "n_points", "cp_max_abs_J_mol_K", "cp_max_rel", "h_max_abs_kJ_mol",
+                "h_max_rel_to_increment", "s_max_abs_J_mol_K", "s_max_rel")
+        rows = [[n.species, n.polynomial.t_mid_K, rng] + [n.polynomial.fit_errors[rng][k] for k in keys]
+                for n in result.nasa for rng in ("low", "high")]
+        out.append(_write_csv(folder / "nasa_fit_errors.csv", ["species", "t_mid_K", "range"] + list(keys), rows))
     return out, nasa
 
 

@@ -390,6 +390,9 @@ def test_nasa_fits_of_the_gases(runs):
         t = np.array(th["temperature_K"])
         worst = max(d["fit_errors"][r]["s_max_abs_J_mol_K"] for r in ("low", "high"))
         np.testing.assert_allclose(C.to_j_per_mol_k(poly.entropy(t)), th["entropy_J_mol_K"], rtol=0, atol=worst + 1e-9)
+    rows = (folder / "nasa_fit_errors.csv").read_text().splitlines()
+    assert "nasa_fit_errors.csv" in doc["files"]["tables"] and len(rows) == 1 + 2 * 3
+    assert rows[0].startswith("species,t_mid_K,range,t_min_K,t_max_K,n_points,cp_max_abs_J_mol_K")
     n2 = read_nasa_json(folder / "nasa_N2.json")
     assert C.to_j_per_mol_k(n2.entropy(500.0)) == pytest.approx(206.739, abs=0.1)
     assert C.to_j_per_mol_k(n2.entropy(1000.0)) == pytest.approx(228.170, abs=0.15)
@@ -427,3 +430,22 @@ def test_validator_checks_the_new_sections(runs):
     for key in ("isobars", "isosteric_heats", "tpd", "nasa"):
         del older[key]
     validate_results(older)
+
+
+def test_rhe_scale_with_a_ph_also_reports_she(tmp_path):
+    """On the RHE scale a pH is optional; with it the limiting potential is also given vs SHE,
+    U_SHE = U_RHE - (kT ln 10 / e) pH (Nørskov et al. 2004), 0.05916 V per pH at 298.15 K (common practice)."""
+    from adsorb.case import load_case
+    from adsorb.study import run_study
+
+    path = tmp_path / "case.toml"
+    path.write_text((HERE / "bad_cases" / "bad_potential_scale.toml").read_text().replace(
+        'potential_scale = "NHE"', 'potential_scale = "RHE"'))
+    run = next(r for r in run_study(load_case(path)).pathways if r.name == "hydrogen_deposition")
+    s = run.summary
+    assert (run.potential_scale, run.pH) == ("RHE", 7.0)
+    assert run.potentials_on_scale_V == run.potentials_V
+    assert s["limiting_potential_V"] == s["limiting_potential_V_RHE"]
+    assert s["limiting_potential_V_SHE"] == pytest.approx(s["limiting_potential_V_RHE"] - 7 * 0.05916, abs=2e-4)
+    # one step * + (H+ + e-) -> H*: U_L = -dG(0)/e
+    assert s["limiting_potential_V_RHE"] == pytest.approx(-run.pathway.step_gibbs[0], rel=1e-12)
