@@ -26,10 +26,11 @@ from adsorb.case_links import PathwaySpec, StepSpec, coverage_pressures, cross_c
 from adsorb.case_schema import (ADSORBATE_KEYS, CASE_KEYS, GAS_KEYS, SURFACE_KEYS, ComparisonSpec, Conditions,
                                 CurveSpec, OutputSpec, Reader, formula_counts, parse_parameters, read_conditions,
                                 read_outputs)
+from adsorb.case_outputs import IsostericSpec, NasaSpec, TPDSpec
 from adsorb.errors import InputError
 
 __all__ = ["CaseError", "Case", "GasSpec", "SurfaceSpec", "AdsorbateSpec", "Conditions", "PathwaySpec", "StepSpec",
-           "CurveSpec", "ComparisonSpec", "OutputSpec", "load_case"]
+           "CurveSpec", "ComparisonSpec", "OutputSpec", "IsostericSpec", "TPDSpec", "NasaSpec", "load_case"]
 
 
 class CaseError(InputError):
