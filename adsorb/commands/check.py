@@ -48,8 +48,22 @@ def summary(case) -> list:
     for cv in out.curves:
         lines.append(f"{cv.kind} on {cv.surface}: p({cv.gas}) {_range([p / 1e5 for p in cv.pressures_Pa], 'bar')} "
                      f"at {_range(cv.temperatures_K, 'K')}")
+    for iso in out.isobars:
+        lines.append(f"isobar on {iso.surface}: p({iso.gas}) {_range([p / 1e5 for p in iso.pressures_Pa], 'bar')} "
+                     f"over {_range(iso.temperatures_K, 'K')}, {'with' if iso.interactions else 'without'} interactions")
+    for q in out.isosteric_heats:
+        lines.append(f"isosteric heat of {q.adsorbate} on {q.surface}: {_range(q.coverages_ML, 'ML')} at "
+                     f"{_range(q.temperatures_K, 'K')}, {'with' if q.interactions else 'without'} interactions")
+    for d in out.tpd:
+        lines.append(f"TPD of {d.adsorbate} on {d.surface}: {d.heating_rate_K_s:g} K/s from "
+                     f"{_range(d.initial_coverages_ML, 'ML')}, {d.temperature_start_K:g}-{d.temperature_end_K:g} K")
+    if out.nasa is not None:
+        lines.append(f"NASA polynomials: {', '.join(out.nasa.species)} over {_range(out.nasa.temperatures_K, 'K')}")
     for p in case.pathways.values():
-        extra = f", potentials {', '.join(f'{u:g}' for u in p.potentials_V)} V vs RHE" if p.kind == "electrochemical" else ""
+        extra = ""
+        if p.kind == "electrochemical":
+            scale = p.potential_scale + (f", pH {p.pH:g}" if p.pH is not None else "")
+            extra = f", potentials {', '.join(f'{u:g}' for u in p.potentials_given_V)} V vs {scale}"
         extra += " + limiting potential" if p.limiting_potential else ""
         balance = "balanced" if p.balance_checked else "atom balance not checked (composition unknown)"
         lines.append(f"pathway {p.name} ({p.kind}, {len(p.steps)} steps on {p.surface} at {p.temperature_K:g} K"
