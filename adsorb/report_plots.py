@@ -158,18 +158,15 @@ def write_plots(result, folder) -> list:
                                 title=f"Isosteric heat of {h.adsorbate} from {h.gas}{per}")
             add(f"Isosteric heat {h.entry}: {h.adsorbate}", stem)
     if result.tpd:
-        import matplotlib.pyplot as plt
-
         from adsorb.tpd import plot_tpd
 
         for run in result.tpd:
             stem = f"tpd_{run.spec.entry}_{slug(run.spec.adsorbate)}" + ("_interacting" if run.spec.interactions else "")
             inter = ", mean-field interactions" if run.spec.interactions else ""
-            fig = plot_tpd(list(run.spectra), folder / stem,
-                           labels=[f"θ0 = {r.initial_coverage:g} ML, Tp = {r.peak_temperature_K:.1f} K"
-                                   for r in run.spectra],
-                           title=f"TPD of {run.spec.adsorbate}, β = {run.spec.heating_rate_K_s:g} K/s{inter}")
-            plt.close(fig)          # plot_tpd draws with pyplot: release the figure
+            plot_tpd(list(run.spectra), folder / stem,
+                     labels=[f"θ0 = {r.initial_coverage:g} ML, Tp = {r.peak_temperature_K:.1f} K"
+                             for r in run.spectra],
+                     title=f"TPD of {run.spec.adsorbate}, β = {run.spec.heating_rate_K_s:g} K/s{inter}")
             add(f"TPD {run.spec.entry}: {run.spec.adsorbate}{inter}", stem)
     if result.pathways:
         from adsorb.diagrams import plot_pathways

@@ -659,14 +659,15 @@ def plot_tpd(results, path, *, labels=None, title=None, mark_peaks=True):
     import matplotlib
 
     matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
+    from matplotlib.figure import Figure
 
     runs = [results] if isinstance(results, TPDResult) else list(results)
     if not runs or not all(isinstance(r, TPDResult) for r in runs):
         raise InputError("results must be a TPDResult or a sequence of TPDResult")
     if labels is not None and len(labels) != len(runs):
         raise InputError(f"labels has {len(labels)} entries for {len(runs)} spectra")
-    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    fig = Figure(figsize=(6.4, 4.2), layout="tight")
+    ax = fig.add_subplot()
     for i, r in enumerate(runs):
         lab = labels[i] if labels is not None else f"θ0 = {r.initial_coverage:g} ML"
         line, = ax.plot(r.temperature, r.rate_per_K, label=lab)
