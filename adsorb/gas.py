@@ -436,8 +436,8 @@ class GasMolecule:
 
     Examples
     --------
-    >>> from ase.build import molecule
-    >>> co = GasMolecule(molecule("CO"), [2143.27], rotational_constants=1.92253)
+    >>> from adsorb.io import named_molecule
+    >>> co = GasMolecule(named_molecule("CO"), [2143.27], rotational_constants=1.92253)
     >>> round(float(co.thermo(298.15).entropy_j_mol_k), 2)
     197.65
     """

@@ -2,7 +2,10 @@
 
 Everything goes through ASE's general-purpose readers (``ase.io``, ``ase.db``,
 ``ase.vibrations.VibrationsData``) except two plain-text formats that are parsed here:
-lists of wavenumbers and the frequency block of a VASP ``OUTCAR``.
+lists of wavenumbers and the frequency block of a VASP ``OUTCAR``. Structures given as
+plain data (symbols and positions, or a name of ASE's molecule collection) are built here
+too (:func:`atoms_from_symbols`, :func:`named_molecule`), so that ASE is imported only in
+this module and in :mod:`adsorb.geometry`.
 
 Units at the boundary: energies in eV (as converted by the ASE reader of each code),
 wavenumbers in cm^-1 with imaginary modes returned as **negative** numbers, lengths in Å,
@@ -28,6 +31,8 @@ __all__ = [
     "VibrationSet",
     "DbRecord",
     "read_structure",
+    "atoms_from_symbols",
+    "named_molecule",
     "read_frequencies",
     "read_vibrations",
     "OutcarModes",
@@ -154,6 +159,73 @@ def read_structure(path, *, index=-1, format=None):
     # the energy first: any later change of the atoms invalidates a SinglePointCalculator
     energy = _energy_from_results(atoms, path, fmt_label)
     return atoms, energy
+
+
+# --------------------------------------------------------------------------- building structures
+
+
+def atoms_from_symbols(symbols, positions_A=None):
+    """An ``ase.Atoms`` from chemical symbols and Cartesian positions.
+
+    The one place outside :mod:`adsorb.geometry` where structures are built
+    from plain data (inline structures of case files, structures built by
+    :mod:`adsorb.entropy_benchmarks`).
+
+    Parameters
+    ----------
+    symbols : str or sequence of str
+        Chemical symbols, one per atom (``["C", "O"]``), or a formula string
+        (``"CO"``, ``"C6H14"``) read by ASE's formula parser.
+    positions_A : array_like of shape (n_atoms, 3), optional
+        Cartesian positions in Å, in the order of the symbols. Default: every
+        atom at the origin (enough for a single atom).
+
+    Returns
+    -------
+    ase.Atoms
+        No cell, no periodicity, no calculator.
+
+    Raises
+    ------
+    InputError
+        An unknown symbol, or positions that are not one [x, y, z] in Å per atom.
+    """
+    from ase import Atoms
+
+    try:
+        positions = None if positions_A is None else np.asarray(positions_A, dtype=float)
+        return Atoms(symbols=symbols, positions=positions)
+    except (KeyError, ValueError) as exc:
+        shown = symbols if isinstance(symbols, str) else list(symbols)
+        raise InputError(f"cannot build atoms from symbols {shown!r} ({exc})") from None
+
+
+def named_molecule(name: str):
+    """A molecule of ASE's built-in collection (the G2 set and a few extras) by name.
+
+    Parameters
+    ----------
+    name : str
+        A name known to ``ase.build.molecule``: a formula such as ``"CO"`` or
+        ``"CH4"``, or a G2 name such as ``"trans-butane"``.
+
+    Returns
+    -------
+    ase.Atoms
+        The geometry of the collection (coordinates in Å), without a cell.
+
+    Raises
+    ------
+    InputError
+        A name the collection does not hold.
+    """
+    from ase.build import molecule
+
+    try:
+        return molecule(name)
+    except KeyError:
+        raise InputError(f"named_molecule name: {name!r} is not in ASE's molecule collection "
+                         "(expected a name known to ase.build.molecule, e.g. 'CO' or 'trans-butane')") from None
 
 
 # --------------------------------------------------------------------------- frequencies

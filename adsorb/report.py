@@ -12,6 +12,7 @@ The HTML page is built by :mod:`adsorb.report_html`; plots by
 from __future__ import annotations
 
 import csv
+import importlib.metadata
 import io
 import math
 import platform
@@ -67,13 +68,13 @@ def _thermo(table):
 
 
 def _versions():
-    import ase
     import scipy
 
     from adsorb import __version__
 
-    return {"adsorb": __version__, "numpy": np.__version__, "scipy": scipy.__version__, "ase": ase.__version__,
-            "python": platform.python_version()}
+    # the installed distribution's version, read without importing ASE (ASE only in geometry and io)
+    return {"adsorb": __version__, "numpy": np.__version__, "scipy": scipy.__version__,
+            "ase": importlib.metadata.version("ase"), "python": platform.python_version()}
 
 
 def _clean(value):

@@ -35,14 +35,15 @@ Z_TOLERANCE = 0.01
 def inline_atoms(symbols, positions_A, where=""):
     """An ``ase.Atoms`` from symbols and Cartesian positions in Å, or an error string.
 
-    (A minimal helper kept here until :mod:`adsorb.io` offers one.)
+    The case reader's form of :func:`adsorb.io.atoms_from_symbols`: the message of its
+    InputError is returned instead of raised, so that it joins the case's list of problems.
     """
-    from ase import Atoms
+    from adsorb.io import atoms_from_symbols
 
     try:
-        return Atoms(symbols=list(symbols), positions=np.asarray(positions_A, dtype=float))
-    except (KeyError, ValueError) as exc:
-        return f"cannot build atoms from symbols {list(symbols)!r} ({exc})"
+        return atoms_from_symbols(list(symbols), positions_A)
+    except InputError as exc:
+        return str(exc)
 
 
 def build_gas(spec):

@@ -750,3 +750,67 @@ def test_extxyz_info_frequencies(tmp_path):
     path.write_text('2\nenergy=-14.2 freqs="2143.0 12.5"\nC 0 0 0\nO 0 0 1.128\n')
     atoms, _ = aio.read_structure(path)
     np.testing.assert_array_equal(aio.read_frequencies(atoms.info["freqs"]), [2143.0, 12.5])
+
+
+# --------------------------------------------------------------------------- building structures
+
+
+def test_atoms_from_symbols_list_and_formula():
+    atoms = aio.atoms_from_symbols(["C", "O"], [[0.0, 0.0, 0.0], [0.0, 0.0, 1.128]])
+    assert atoms.get_chemical_symbols() == ["C", "O"]
+    np.testing.assert_allclose(atoms.positions, [[0.0, 0.0, 0.0], [0.0, 0.0, 1.128]])
+    # standard atomic weights of C and O (IUPAC, conventional values 12.011 and 15.999; from memory)
+    np.testing.assert_allclose(atoms.get_masses(), [12.011, 15.999], atol=2e-3)
+    formula = aio.atoms_from_symbols("C2H6", np.zeros((8, 3)))
+    assert formula.get_chemical_symbols() == ["C", "C"] + ["H"] * 6
+    single = aio.atoms_from_symbols("Ar")
+    assert len(single) == 1 and not single.pbc.any()
+    np.testing.assert_array_equal(single.positions, [[0.0, 0.0, 0.0]])
+
+
+@pytest.mark.parametrize("symbols, positions, needle", [
+    (["C", "Xx"], [[0, 0, 0], [0, 0, 1]], "['C', 'Xx']"),
+    ("CXx", None, "'CXx'"),
+    (["C", "O"], [[0, 0, 0]], "wrong length"),
+])
+def test_atoms_from_symbols_bad_input(symbols, positions, needle):
+    with pytest.raises(InputError) as excinfo:
+        aio.atoms_from_symbols(symbols, positions)
+    _assert_one_line(excinfo, "cannot build atoms from symbols", needle)
+
+
+def test_inline_atoms_returns_the_message():
+    from adsorb.study import inline_atoms
+
+    atoms = inline_atoms(("N", "N"), [[0, 0, 0], [0, 0, 1.098]])
+    assert atoms.get_chemical_formula() == "N2"
+    text = inline_atoms(["N", "Qq"], [[0, 0, 0], [0, 0, 1.098]])
+    assert isinstance(text, str) and "['N', 'Qq']" in text
+
+
+def test_named_molecule():
+    co = aio.named_molecule("CO")
+    assert sorted(co.get_chemical_symbols()) == ["C", "O"]
+    # CO bond length r_e = 1.128 Å (Huber & Herzberg 1979, from memory); the collection's geometry is a
+    # computed one, so it agrees only to a few hundredths of an Å
+    assert co.get_distance(0, 1) == pytest.approx(1.128, abs=0.03)
+    assert aio.named_molecule("trans-butane").get_chemical_formula() == "C4H10"
+    with pytest.raises(InputError) as excinfo:
+        aio.named_molecule("no-such-molecule")
+    _assert_one_line(excinfo, "named_molecule name", "'no-such-molecule'")
+
+
+def test_ase_imported_only_by_geometry_and_io():
+    """The layering rule of the design: ASE is imported only by adsorb/io.py and adsorb/geometry/."""
+    import re
+    from pathlib import Path
+
+    root = Path(aio.__file__).resolve().parent
+    pattern = re.compile(r"\bimport ase\b|\bfrom ase\b")
+    offenders = []
+    for path in sorted(root.rglob("*.py")):
+        rel = path.relative_to(root).as_posix()
+        if rel == "io.py" or rel.startswith("geometry/"):
+            continue
+        offenders += [f"{rel}:{n}" for n, line in enumerate(path.read_text().splitlines(), 1) if pattern.search(line)]
+    assert offenders == []

@@ -51,9 +51,10 @@ Simplifications of (b), stated once here and in docs/entropy-benchmarks.md:
 
 Geometry: ``ase.build.molecule`` (the G2 set) for CH4, C2H6, C3H8 and
 trans-butane; a zig-zag all-trans chain built here (:func:`zigzag_alkane`)
-for hexane, octane and decane. ASE is imported only inside the functions that
-build structures (:func:`benchmark_gas`, :func:`zigzag_alkane`,
-:func:`alkane_atoms`).
+for hexane, octane and decane. The functions that build structures
+(:func:`benchmark_gas`, :func:`zigzag_alkane`, :func:`alkane_atoms`) do so
+through :mod:`adsorb.io` (ASE is imported only there and in
+:mod:`adsorb.geometry`).
 
 The package holds one subject per module, and every public name is imported
 from here: the inputs in :mod:`~adsorb.entropy_benchmarks.data`, benchmark

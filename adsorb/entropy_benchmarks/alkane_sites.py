@@ -9,8 +9,9 @@ the **invented** barriers and modes of :data:`ALKANE_SURFACE`, with the
 barrier-implied frequencies of L. H. Sprowl, C. T. Campbell, L. Árnadóttir,
 J. Phys. Chem. C 2016, 120, 9719.
 
-ASE is imported only inside the functions that build structures
-(:func:`zigzag_alkane`, :func:`alkane_atoms`). Import the names from
+The functions that build structures (:func:`zigzag_alkane`,
+:func:`alkane_atoms`) do so through :mod:`adsorb.io` (ASE is imported only
+there and in :mod:`adsorb.geometry`). Import the names from
 :mod:`adsorb.entropy_benchmarks`.
 """
 
@@ -76,7 +77,7 @@ def zigzag_alkane(n: int, *, cc_A: float = 1.53, ch_A: float = 1.09, ccc_deg: fl
         if not (np.isfinite(value) and value > 0):
             msg = f"zigzag_alkane {label}: expected a finite number > 0, got {value!r}"
             raise InputError(msg)
-    from ase import Atoms
+    from adsorb.io import atoms_from_symbols
 
     half = np.radians(ccc_deg) / 2.0
     carbons = np.array([[i * cc_A * np.sin(half), (i % 2) * cc_A * np.cos(half), 0.0] for i in range(n)])
@@ -98,7 +99,7 @@ def zigzag_alkane(n: int, *, cc_A: float = 1.53, ch_A: float = 1.09, ccc_deg: fl
         e2 = np.cross(v, e1)
         for phi in (0.0, 2.0 * np.pi / 3.0, -2.0 * np.pi / 3.0):
             hydrogens.append(carbons[end] + ch_A * (np.cos(g) * v + np.sin(g) * (np.cos(phi) * e1 + np.sin(phi) * e2)))
-    return Atoms(f"C{n}H{2 * n + 2}", positions=np.vstack([carbons, np.array(hydrogens)]))
+    return atoms_from_symbols(f"C{n}H{2 * n + 2}", np.vstack([carbons, np.array(hydrogens)]))
 
 
 def alkane_atoms(n: int):
@@ -111,9 +112,9 @@ def alkane_atoms(n: int):
     """
     n = _chain_length(n)
     if n in _G2_ALKANES:
-        from ase.build import molecule
+        from adsorb.io import named_molecule
 
-        return molecule(_G2_ALKANES[n]), f"ase.build.molecule({_G2_ALKANES[n]!r}) (G2 set)"
+        return named_molecule(_G2_ALKANES[n]), f"ase.build.molecule({_G2_ALKANES[n]!r}) (G2 set)"
     return zigzag_alkane(n), "zig-zag all-trans chain built here"
 
 

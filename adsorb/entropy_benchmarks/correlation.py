@@ -6,8 +6,8 @@ standard deviation 2R. The gas molecules of :data:`GAS_DATA` sit on the
 **invented** sites of :data:`INVENTED_SITES`; each adsorbate is evaluated
 with :func:`adsorb.model_choice.compare_models` (harmonic, hindered, 2D gas)
 plus a 2D gas with a free rotor about the normal, at a named standard state.
-ASE is imported only inside :func:`benchmark_gas`, which builds the
-structures.
+:func:`benchmark_gas` builds the structures through :mod:`adsorb.io`
+(ASE is imported only there and in :mod:`adsorb.geometry`).
 
 Import the names from :mod:`adsorb.entropy_benchmarks`.
 """
@@ -62,13 +62,11 @@ def benchmark_gas(name: str):
         Unknown name.
     """
     _check_name(name, GAS_DATA, "benchmark molecule")
-    from ase import Atoms
-    from ase.build import molecule
-
     from adsorb.gas import GasMolecule, Torsion
+    from adsorb.io import atoms_from_symbols, named_molecule
 
     data = GAS_DATA[name]
-    atoms = Atoms(data.structure) if not data.rotational_constants_cm else molecule(data.structure)
+    atoms = atoms_from_symbols(data.structure) if not data.rotational_constants_cm else named_molecule(data.structure)
     keywords = {"name": name}
     if data.rotational_constants_cm:
         keywords.update(rotational_constants=data.rotational_constants_cm, symmetry_number=data.symmetry_number)
