@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 from scipy.optimize import brentq, root
 
-import adsorb.coverage as coverage_module
+import adsorb.coverage_mean_field as mean_field_module
 from adsorb.constants import kB_eV
 from adsorb.coverage import (
     CoverageSolution,
@@ -367,7 +367,7 @@ def test_large_map_runs():
 
 def test_convergence_error_names_the_point(monkeypatch):
     """A solve cut short raises ConvergenceError naming the grid index, T and pressures."""
-    monkeypatch.setattr(coverage_module, "_MAX_ITER", 1)
+    monkeypatch.setattr(mean_field_module, "_MAX_ITER", 1)
     K = np.array([1e-3, 1e-3])
     p = np.array([[1e5, 1e5], [1e5, 2e5]])
     with pytest.raises(ConvergenceError, match=r"grid index \(0,\).*temperature = 300 K.*pressures"):
@@ -443,3 +443,26 @@ def test_stable_pick_is_global_minimum_in_attractive_mixtures():
                     np.exp(sol.x[:n]), K, p, T, None, eps)))
         assert om <= best + 1e-10 * abs(best) + 1e-13
     assert found_multiple > 0
+
+
+def test_public_names_and_stable_signature():
+    """site_coverages is a stable contract (DEVELOPERS.md): same object from adsorb, same signature."""
+    import inspect
+
+    import adsorb
+    import adsorb.coverage as coverage
+
+    assert adsorb.site_coverages is coverage.site_coverages
+    for name in coverage.__all__:
+        assert getattr(coverage, name).__module__.startswith("adsorb.coverage")
+    params = inspect.signature(coverage.site_coverages).parameters
+    assert [(p.name, p.kind.name, p.default) for p in params.values()] == [
+        ("K", "POSITIONAL_OR_KEYWORD", inspect.Parameter.empty),
+        ("pressures", "POSITIONAL_OR_KEYWORD", inspect.Parameter.empty),
+        ("dissociative", "POSITIONAL_OR_KEYWORD", None),
+        ("interactions", "POSITIONAL_OR_KEYWORD", None),
+        ("temperature", "POSITIONAL_OR_KEYWORD", None),
+        ("sites_per_species", "KEYWORD_ONLY", None),
+        ("site_kind", "KEYWORD_ONLY", None),
+        ("warn_multiple", "KEYWORD_ONLY", True),
+    ]
