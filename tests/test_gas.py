@@ -463,3 +463,21 @@ def test_cli_torsion_bad_input(ethane_file, capsys, spec, match):
     assert main(["gas", str(ethane_file), "--frequencies", ETHANE_NU, "--torsion", spec]) == 2
     err = capsys.readouterr().err
     assert match in err and f"--torsion {spec!r}" in err and len(err.strip().splitlines()) == 1
+
+
+def test_gas_molecule_stable_signature():
+    """GasMolecule is a stable contract (DEVELOPERS.md): same class from adsorb, same signature."""
+    import inspect
+
+    import adsorb
+
+    assert adsorb.GasMolecule is GasMolecule
+    params = inspect.signature(GasMolecule).parameters
+    positional = [(p.name, p.default) for p in params.values() if p.kind is p.POSITIONAL_OR_KEYWORD]
+    assert positional == [("atoms", inspect.Parameter.empty), ("frequencies", inspect.Parameter.empty),
+                          ("energy", 0.0), ("multiplicity", 1), ("symmetry_number", None),
+                          ("electronic_levels", None), ("rotational_constants", None)]
+    keyword = {p.name: p.default for p in params.values() if p.kind is p.KEYWORD_ONLY}
+    assert keyword == {"rotor": "auto", "level_sum_above_cm": 5.0, "centrifugal_cm": 0.0, "nuclear_spin": None,
+                       "even_j_symmetric": True, "imaginary_modes": "raise", "near_zero_cm": 50.0,
+                       "shape_tolerance": 1e-3, "symmetry_tolerance": 0.05, "name": None, "torsions": ()}

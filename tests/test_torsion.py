@@ -389,3 +389,14 @@ def test_error_messages_are_one_line():
 def test_monatomic_refuses_torsions():
     with pytest.raises(InputError, match="no torsion"):
         GasMolecule(Atoms("Ar"), [], torsions=[Torsion(inertia_amu_A2=1.0, barriers_cm=[0.0])])
+
+
+def test_torsion_importable_from_gas_and_torsion():
+    """adsorb.gas.Torsion (used by case files and the gas command) is the class of adsorb.torsion."""
+    import adsorb.gas
+    import adsorb.torsion
+
+    assert adsorb.gas.Torsion is adsorb.torsion.Torsion
+    for name in ("TORSION_SOLVERS", "REDUCED_MOMENTS", "MODE_MATCH_CM"):
+        assert getattr(adsorb.gas, name) is getattr(adsorb.torsion, name)
+    assert adsorb.torsion.TORSION_SOLVERS == ("exact", "closed-form")
