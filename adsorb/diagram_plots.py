@@ -79,7 +79,7 @@ def plot_pathways(pathways, path, *, potentials=(0.0,), scale: str = "RHE", ph=0
             g = state_energies(p, u, scale=scale, ph=ph)
             label = p.name or "pathway"
             if p.electrochemical:
-                label += f", U = {u:g} V vs {scale}" + (f" (pH {float(ph):g})" if scale == "SHE" else "")
+                label += f", U = {round(u, 3):g} V vs {scale}" + (f" (pH {float(ph):g})" if scale == "SHE" else "")
             series.append((p, k, g, label))
 
     width = max(6.0, 1.2 * max(p.n_states for p in pathways) + 2.0)
