@@ -368,8 +368,11 @@ def hindered_rotor(temperature, inertia_amu_A2, barrier_eV, n_minima,
 # ---------------------------------------------------------------------------
 
 
-def _reliable_dimensionless(kt, hnu, r):
+def _reliable_dimensionless(kt, eff_inertia, barrier_j):
     """The measured accuracy rule in terms of r = W/(h nu) and T* = kT/(h nu).
+
+    ``eff_inertia`` is m b^2 (translator) or I (2 pi/n)^2 (rotor) in SI, so
+    that h nu = h sqrt(W/(2 eff)) and r = sqrt(2 eff W)/h for both models.
 
     True where |q_closed/q_exact - 1| <= 1 % and |S_closed - S_exact| <= 0.02 k
     for the cosine potential (measured against :mod:`adsorb.partition.periodic`
@@ -384,6 +387,8 @@ def _reliable_dimensionless(kt, hnu, r):
     others the shallow-well regime, where the harmonic quantum correction is
     wrong until kT is many quanta.
     """
+    hnu = C.h * np.sqrt(barrier_j / (2.0 * eff_inertia))
+    r = np.sqrt(2.0 * eff_inertia * barrier_j) / C.h
     t_star = np.where(hnu > 0.0, kt / np.where(hnu > 0.0, hnu, 1.0), np.inf)
     r_safe = np.where(r > 0.0, r, 1.0)
     deep = (r >= 3.0) & (t_star >= 2.0 / r_safe**2)
@@ -425,10 +430,7 @@ def translator_closed_form_reliable(temperature, mass_amu, barrier_eV, spacing_A
     m = _as_float_array("mass_amu", mass_amu) * C.amu
     w = _as_float_array("barrier_eV", barrier_eV, allow_zero=True) * C.eV
     b = _as_float_array("spacing_A", spacing_A) * C.angstrom
-    eff = m * b**2
-    hnu = C.h * np.sqrt(w / (2.0 * eff))
-    r = np.sqrt(2.0 * eff * w) / C.h
-    return _reliable_dimensionless(C.k_B * t, hnu, r)
+    return _reliable_dimensionless(C.k_B * t, m * b**2, w)
 
 
 def rotor_closed_form_reliable(temperature, inertia_amu_A2, barrier_eV, n_minima):
@@ -465,11 +467,8 @@ def rotor_closed_form_reliable(temperature, inertia_amu_A2, barrier_eV, n_minima
     inertia = _as_float_array("inertia_amu_A2", inertia_amu_A2) * C.amu_A2
     w = _as_float_array("barrier_eV", barrier_eV, allow_zero=True) * C.eV
     n = _as_count_array("n_minima", n_minima)
-    eff = inertia * (2.0 * C.pi / n) ** 2
-    hnu = C.h * np.sqrt(w / (2.0 * eff))
-    r = np.sqrt(2.0 * eff * w) / C.h
     theta = C.hbar**2 / (2.0 * inertia * C.k_B)
-    return _reliable_dimensionless(C.k_B * t, hnu, r) & (t >= theta)
+    return _reliable_dimensionless(C.k_B * t, inertia * (2.0 * C.pi / n) ** 2, w) & (t >= theta)
 
 
 def closed_form_reliable(temperature, *, mass_amu=None, barrier_eV=None, spacing_A=None,
