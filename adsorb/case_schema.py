@@ -45,6 +45,8 @@ ADSORBATE_KEYS = _STRUCTURE + _FREQ + tuple(MODEL_PARAMETERS) + (
 FUGACITIES = ("ideal", "peng-robinson")
 #: pressure unit suffix -> factor to Pa
 PRESSURE_UNITS = {"Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "bar": C.bar, "atm": C.atm, "torr": C.torr}
+#: the characters str.splitlines() breaks on -> their escapes (problems are one line each)
+_LINE_BREAKS = {ord(c): repr(c)[1:-1] for c in "\n\r\x0b\x0c\x1c\x1d\x1e\x85\u2028\u2029"}
 
 
 class Reader:
@@ -60,7 +62,8 @@ class Reader:
         return f"{self.path}.{key}" if self.path else str(key)
 
     def problem(self, key, what, expected):
-        self.problems.append(f"{self.file}: {self.where(key)}: {what}; expected {expected}")
+        # names and values from the file may hold line breaks (a quoted TOML key "a\nb"): keep one line each
+        self.problems.append(f"{self.file}: {self.where(key)}: {what}; expected {expected}".translate(_LINE_BREAKS))
 
     @staticmethod
     def suggest(value, options):
