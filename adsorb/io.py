@@ -129,8 +129,9 @@ def read_structure(path, *, index=-1, format=None):
     Raises
     ------
     InputError
-        Missing file, unknown format, any failure inside the ASE reader, a non-integer
-        ``index``, or an energy that is NaN or infinite.
+        Missing or empty file, unknown format, any failure inside the ASE reader, a
+        non-integer or out-of-range ``index``, or an energy or a position that is NaN or
+        infinite.
     """
     path = _existing_file(path, "structure file")
     if isinstance(index, bool) or not isinstance(index, (int, np.integer)):
@@ -141,14 +142,26 @@ def read_structure(path, *, index=-1, format=None):
         raise InputError(f"read_structure('{path}'): format must be a string, got {format!r}")
     fmt_label = f"format '{format}'" if format else "format guessed from the file name"
 
+    if path.stat().st_size == 0:
+        raise InputError(f"structure file '{path}': the file is empty (expected at least one atom)")
+
     import ase.io  # ASE is imported only in geometry/io code
 
     try:
         atoms = ase.io.read(str(path), index=int(index), format=format)
     except Exception as exc:  # every reader failure becomes one clean line
+        n_images = _image_count(path, format) if isinstance(exc, (StopIteration, IndexError)) else None
+        if n_images is not None and not -n_images <= index < n_images:
+            raise InputError(f"structure file '{path}' ({fmt_label}): index {index} is out of range for its "
+                             f"{n_images} image(s); expected an image number from {-n_images} to {n_images - 1}") from None
         hint = ""
         if type(exc).__name__ == "UnknownFileTypeError" or (format is None and isinstance(exc, UnicodeDecodeError)):
             hint = "; pass format= with an ase.io format name (e.g. 'vasp-out' for a renamed OUTCAR)"
+        elif isinstance(exc, KeyError) and exc.args and isinstance(exc.args[0], str):
+            from ase.data import chemical_symbols
+
+            if exc.args[0] not in chemical_symbols:
+                hint = f"; {exc.args[0]!r} is not a chemical element symbol (expected symbols such as H, C, O, Pt)"
         raise InputError(f"cannot read structure file '{path}' ({fmt_label}): {_one_line(exc)}{hint}") from exc
     if isinstance(atoms, list):  # defensive: some readers return a list for one index
         if len(atoms) != 1:
@@ -158,7 +171,22 @@ def read_structure(path, *, index=-1, format=None):
         atoms = atoms[0]
     # the energy first: any later change of the atoms invalidates a SinglePointCalculator
     energy = _energy_from_results(atoms, path, fmt_label)
+    bad = np.flatnonzero(~np.all(np.isfinite(atoms.positions), axis=1))
+    if bad.size:
+        i = int(bad[0])
+        raise InputError(f"structure file '{path}' ({fmt_label}): atom {i} ({atoms[i].symbol}) is at "
+                         f"{atoms.positions[i].tolist()}; expected finite coordinates in Å")
     return atoms, energy
+
+
+def _image_count(path: Path, format):
+    """Number of images ase.io reads from ``path``, or None when it cannot read them all."""
+    import ase.io
+
+    try:
+        return len(ase.io.read(str(path), index=":", format=format))
+    except Exception:
+        return None
 
 
 # --------------------------------------------------------------------------- building structures
