@@ -56,10 +56,17 @@ def _frequencies(rec, key):
     nu = rec.data.get(key)
     if nu is None:
         raise InputError(f"database '{rec.source}', row id={rec.id}: no data['{key}'] (expected wavenumbers in cm^-1)")
-    nu = np.atleast_1d(np.asarray(nu, dtype=float))
-    if nu.ndim != 1 or nu.size == 0 or not np.all(np.isfinite(nu) & (nu > 0)):
-        raise InputError(f"database '{rec.source}', row id={rec.id}: data['{key}'] must be a non-empty list of real "
-                         f"wavenumbers > 0 cm^-1 (imaginary modes need a policy before screening)")
+    where = f"database '{rec.source}', row id={rec.id}: data['{key}']"
+    try:
+        nu = np.atleast_1d(np.asarray(nu, dtype=float))
+    except (TypeError, ValueError):
+        raise InputError(f"{where} is {str(nu)[:60]!r}; expected a list of wavenumbers in cm^-1") from None
+    if nu.ndim != 1 or nu.size == 0:
+        raise InputError(f"{where} has shape {nu.shape}; expected a non-empty list of wavenumbers in cm^-1")
+    bad = np.flatnonzero(~(np.isfinite(nu) & (nu > 0)))
+    if bad.size:
+        raise InputError(f"{where}[{bad[0]}] is {nu[bad[0]]:g}; expected real wavenumbers > 0 cm^-1 "
+                         "(imaginary modes need a policy before screening)")
     return nu
 
 
@@ -88,11 +95,17 @@ def _references(path, frequencies_key):
         name = _key(rec, "gas")
         if name in gases:
             raise InputError(f"database '{path}': two gas rows for '{name}'")
+        if rec.energy is None:
+            raise InputError(f"database '{path}', row id={rec.id}: gas '{name}' has no energy (expected eV)")
         kv = rec.key_value_pairs
         rot = rec.data.get("rotational_constants")
-        gases[name] = GasMolecule(rec.atoms, _frequencies(rec, frequencies_key), energy=rec.energy or 0.0,
-                                  multiplicity=kv.get("multiplicity", 1), symmetry_number=kv.get("symmetry_number"),
-                                  rotational_constants=None if rot is None else list(np.ravel(rot)), name=name)
+        nu = _frequencies(rec, frequencies_key)
+        try:
+            gases[name] = GasMolecule(rec.atoms, nu, energy=rec.energy, multiplicity=kv.get("multiplicity", 1),
+                                      symmetry_number=kv.get("symmetry_number"),
+                                      rotational_constants=None if rot is None else list(np.ravel(rot)), name=name)
+        except InputError as exc:
+            raise InputError(f"database '{path}', row id={rec.id} (gas '{name}'): {exc}") from None
     return {k: v[0] for k, v in slabs.items()}, gases
 
 
