@@ -187,7 +187,8 @@ class _Loader:
 
         try:
             if key == "frequencies_file":
-                return tuple(float(x) for x in io.read_frequencies(p, format=t.string("frequencies_format"))), None
+                fmt = t.string("frequencies_format", choices=io.FREQUENCY_FORMATS)
+                return tuple(float(x) for x in io.read_frequencies(p, format=fmt)), None
             vib = io.read_vibrations(p)
             return tuple(float(x) for x in vib.frequencies_cm), (vib if modes else None)
         except InputError as exc:
