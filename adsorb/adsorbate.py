@@ -40,8 +40,10 @@ import warnings
 
 import numpy as np
 
+from adsorb import constants as C
 from adsorb.errors import InputError, ModelWarning
 from adsorb.partition import hindered as _hindered
+from adsorb.partition.checks import unit_suspicion
 from adsorb.partition.contribution import Contribution
 from adsorb.partition.translation import translation_2d
 from adsorb.partition.vibration import harmonic
@@ -94,6 +96,18 @@ def _positive_number(key: str, value) -> float:
         raise InputError(msg) from None
     if not np.isfinite(v) or v <= 0:
         msg = f"Adsorbate parameter {key!r}: expected a finite number > 0, got {value!r}"
+        raise InputError(msg)
+    return v
+
+
+def _nonnegative_number(key: str, value) -> float:
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        msg = f"Adsorbate parameter {key!r}: expected a number, got {value!r}"
+        raise InputError(msg) from None
+    if not np.isfinite(v) or v < 0:
+        msg = f"Adsorbate parameter {key!r}: expected a finite number >= 0, got {value!r}"
         raise InputError(msg)
     return v
 
@@ -220,6 +234,15 @@ class Adsorbate:
         if nu.size == 0 or not np.all(np.isfinite(nu)):
             msg = "Adsorbate frequencies: expected a non-empty list of finite numbers in cm^-1"
             raise InputError(msg)
+        symbols = [] if self.atoms is None else [self.atoms[i].symbol for i in self.indices]
+        suspicion = unit_suspicion(nu, has_hydrogen="H" in symbols, hydrogen_stretch_cm=400.0)
+        if suspicion and suspicion.startswith("every"):
+            msg = f"Adsorbate frequencies of {self.name}: expected cm^-1, but {suspicion}"
+            raise InputError(msg)
+        if suspicion:
+            text = f"{self.name}: frequencies may not be in cm^-1: {suspicion}"
+            warnings.warn(text, ModelWarning, stacklevel=3)
+            self._warnings.append(text)
         if self.n_atoms is not None and nu.size != 3 * self.n_atoms:
             msg = (f"Adsorbate frequencies: expected 3N = {3 * self.n_atoms} modes for the "
                    f"{self.n_atoms} adsorbate atoms, got {nu.size}")
@@ -312,6 +335,11 @@ class Adsorbate:
                         raise InputError(msg)
         if self.model == "surface-pes":
             self.pes = p["pes"]
+        if self.model in ("harmonic", "lattice-gas"):
+            # optional here: it only serves the domain check of Adsorbate.thermo
+            self.translation_barrier = None
+            if "translation_barrier" in p:
+                self.translation_barrier = float(_nonnegative_number("translation_barrier", p["translation_barrier"]))
 
     # ------------------------------------------------------- mode assignment
     def implied_frequencies(self):
@@ -413,6 +441,41 @@ class Adsorbate:
             return text
         return None
 
+    #: the softest raw harmonic mode is doubtful where kT exceeds this many h c nu (our rule)
+    SOFT_MODE_RATIO = 5.0
+
+    def _domain_warnings(self, t):
+        """ModelWarnings (also returned as notes) where the harmonic picture leaves its domain.
+
+        * harmonic or lattice-gas model with a known diffusion barrier W_x: kT > W_x, where
+          the adsorbate hops freely and frustrated translations are no longer vibrations
+          (Sprowl, Campbell and Árnadóttir, J. Phys. Chem. C 120, 9719 (2016));
+        * harmonic or lattice-gas model whose modes are not floored or interpolated
+          (``low_frequency='none'``): kT above ``SOFT_MODE_RATIO`` h c ν_min. There the mode's
+          entropy is the classical k[1 + ln(kT/hcν)], set by a frequency that calculations of
+          weakly bound adsorbates do not give to better than a factor of two.
+        """
+        kt_max = C.kB_eV * float(np.max(t))
+        out = []
+        if self.model not in ("harmonic", "lattice-gas"):
+            return out
+        barrier = self.translation_barrier
+        if barrier is not None and kt_max > barrier:
+            out.append(f"{self.name}: kT exceeds the diffusion barrier W_x = {barrier:g} eV above "
+                       f"{barrier / C.kB_eV:.4g} K, where the {self.model} model treats a mobile adsorbate as "
+                       "bound; consider model 'hindered' or '2d-gas'")
+        nu = self.harmonic_frequencies
+        if self.low_frequency == "none" and nu.size:
+            soft = float(nu.min())
+            t_soft = self.SOFT_MODE_RATIO * soft * C.invcm_K
+            if float(np.max(t)) > t_soft:
+                out.append(f"{self.name}: the softest harmonic mode ({soft:g} cm^-1) is below kT/"
+                           f"{self.SOFT_MODE_RATIO:g} above {t_soft:.4g} K, where its harmonic entropy is "
+                           "unreliable for a weakly bound adsorbate; consider low_frequency='qrrho' or a mobile model")
+        for text in out:
+            warnings.warn(text, ModelWarning, stacklevel=3)
+        return out
+
     def _soft_part(self, t):
         if self.model in ("harmonic", "lattice-gas"):
             return Contribution.zero(t), []
@@ -487,6 +550,7 @@ class Adsorbate:
             msg = f"Adsorbate.thermo temperature: expected finite values > 0 K, got {temperature!r}"
             raise InputError(msg)
         soft, notes = self._soft_part(t)
+        notes = list(notes) + self._domain_warnings(t)
         total = self._harmonic_part(t) + soft
         return assemble(t, total, energy=self.energy, gas=False, name=self.name,
                         choices=self.choices(), warnings=tuple(self._warnings) + tuple(notes))

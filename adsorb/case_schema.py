@@ -31,7 +31,7 @@ MODEL_PARAMETERS = {
     "low_frequency": ("low_frequency", (), ("none", "floor", "qrrho")),
     "frequency_floor_cm": ("frequency_floor", (), "positive"),
     "mass_amu": ("mass", ("hindered", "2d-gas"), "positive"),
-    "translation_barrier_eV": ("translation_barrier", ("hindered",), "nonneg"),
+    "translation_barrier_eV": ("translation_barrier", ("hindered", "harmonic", "lattice-gas"), "nonneg"),
     "site_spacing_A": ("site_spacing", ("hindered", "2d-gas"), "positive"),
     "site_area_A2": ("site_area", ("hindered", "2d-gas"), "positive"),
     "rotation_barrier_eV": ("rotation_barrier", ("hindered",), "nonneg"),

@@ -24,6 +24,7 @@ from adsorb import constants as C
 from adsorb import geometry
 from adsorb._gas_checks import _fmt, _number, _positive_int
 from adsorb.errors import InputError
+from adsorb.partition.checks import unit_suspicion
 from adsorb.partition.contribution import Contribution
 from adsorb.partition.electronic import electronic
 from adsorb.partition.rotation import linear_rotor, linear_rotor_levels, nonlinear_rotor
@@ -339,6 +340,9 @@ class GasMolecule:
     def _vibrational_modes(self, frequencies, policy):
         """The harmonic modes from the caller's list, with the near-zero surplus and imaginary modes handled."""
         nu = _signed_wavenumbers(frequencies)
+        suspicion = unit_suspicion(nu, has_hydrogen="H" in self.atoms.get_chemical_symbols())
+        if suspicion:
+            raise InputError(f"GasMolecule frequencies of {self.name}: expected cm^-1, but {suspicion}")
         n_given = nu.size
         origin = np.arange(n_given)
         n_expected = {"monatomic": 0, "linear": 3 * self.n_atoms - 5,

@@ -18,6 +18,10 @@ from adsorb.errors import InputError, ModelWarning
 from adsorb.partition.translation import translation_2d
 from adsorb.standard_states import savara_concentration_mol_m2, standard_coverage, standard_thermo
 
+# invented test species keep soft modes at high T on purpose; the domain warning of the
+# harmonic model is checked in test_harmonic_domain_warnings
+pytestmark = pytest.mark.filterwarnings("ignore:.*softest harmonic mode:adsorb.errors.ModelWarning")
+
 # invented example: a CO-like adsorbate on an invented metal site
 FREQS = [45.0, 52.0, 70.0, 310.0, 330.0, 2010.0]
 CO_MASS = 28.0101  # amu, IUPAC atomic weights C 12.011 + O 15.999 (from memory)
@@ -304,3 +308,60 @@ def test_soft_modes_given_explicitly():
     for bad in ([1, 2], [1, 1, 2], [1, 2, 9]):
         with pytest.raises(InputError, match="soft_modes"):
             Adsorbate(freqs, 0.0, "hindered", soft_modes=bad, **HINDERED)
+
+
+# ---------------------------------------------------------------- domain warnings and units
+def _domain_messages(ads, t):
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        table = ads.thermo(t)
+    got = [str(w.message) for w in caught if issubclass(w.category, ModelWarning)]
+    assert all(m in table.warnings for m in got)          # recorded with the result too
+    return got
+
+
+def test_harmonic_domain_warnings():
+    """kT above the diffusion barrier, and a soft mode below kT/5, are flagged for the harmonic picture."""
+    stiff = [400.0, 420.0, 450.0, 500.0, 520.0, 2000.0]                # invented, all stiff
+    w = 0.05                                                           # eV, invented barrier
+    t_w = w / C.kB_eV                                                  # kT = W at 580.2 K (CODATA k via scipy)
+    ads = Adsorbate(stiff, model="harmonic", translation_barrier=w)
+    assert _domain_messages(ads, [0.98 * t_w]) == []
+    msgs = _domain_messages(ads, [300.0, 1.02 * t_w])
+    assert len(msgs) == 1 and "diffusion barrier" in msgs[0] and f"{t_w:.4g} K" in msgs[0]
+    # the soft-mode rule: kT > 5 h c nu_min, i.e. T > 5 * 50 cm^-1 * 1.438777 K/cm^-1 = 359.7 K
+    # (second radiation constant c2 = hc/k = 1.438777 cm K, CODATA 2018)
+    soft = [50.0] + stiff[1:]
+    assert _domain_messages(Adsorbate(soft, model="lattice-gas"), [355.0]) == []
+    msgs = _domain_messages(Adsorbate(soft, model="lattice-gas"), [365.0])
+    assert len(msgs) == 1 and "softest harmonic mode (50 cm^-1)" in msgs[0]
+    # a treatment of low modes, or a model that replaces the soft modes, removes the warning
+    assert _domain_messages(Adsorbate(soft, model="harmonic", low_frequency="qrrho"), [900.0]) == []
+    assert _domain_messages(Adsorbate(FREQS, model="hindered", **HINDERED), [300.0]) == []
+
+
+def test_barrier_of_the_harmonic_model_is_validated():
+    with pytest.raises(InputError, match="'translation_barrier': expected a finite number >= 0"):
+        Adsorbate(FREQS, model="harmonic", translation_barrier=-0.1)
+
+
+def test_frequencies_in_ev_are_refused_with_the_conversion():
+    """A list whose every |nu| is below 1 cm^-1 is refused, naming the eV -> cm^-1 factor 8065.54."""
+    ev = [f * 1.239842e-4 for f in FREQS]                # cm^-1 -> eV, CODATA hc/e = 1.239842e-6 eV m
+    with pytest.raises(InputError, match=r"look like eV: multiply by 8065\.54"):
+        Adsorbate(ev)
+
+
+def test_hydrogen_adsorbate_in_mev_is_flagged():
+    """An adsorbate with H whose largest |nu| is below 400 cm^-1 gets a ModelWarning naming meV."""
+    from ase import Atoms
+
+    h = Atoms("H", positions=[[0, 0, 1.0]])                  # invented H* in a hollow site
+    mev = [70.0, 75.0, 130.0]                                 # its modes written in meV (invented)
+    with pytest.warns(ModelWarning, match=r"look like meV: multiply by 8\.0655"):
+        ads = Adsorbate(mev, atoms=h, indices=[0])
+    assert any("meV" in w for w in ads._warnings)
+    cm = [m * 8.065544 for m in mev]                           # 1 meV = 8.065544 cm^-1 (CODATA 2018)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", ModelWarning)
+        Adsorbate(cm, atoms=h, indices=[0])

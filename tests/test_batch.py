@@ -7,6 +7,10 @@ import pytest
 
 from adsorb.cli import main
 
+# invented test species keep soft modes at high T on purpose; the domain warning of the
+# harmonic model is checked in tests/test_adsorbate.py::test_harmonic_domain_warnings
+pytestmark = pytest.mark.filterwarnings("ignore:.*softest harmonic mode:adsorb.errors.ModelWarning")
+
 ase = pytest.importorskip("ase")
 
 T = [300.0, 500.0, 700.0]

@@ -481,3 +481,15 @@ def test_gas_molecule_stable_signature():
     assert keyword == {"rotor": "auto", "level_sum_above_cm": 5.0, "centrifugal_cm": 0.0, "nuclear_spin": None,
                        "even_j_symmetric": True, "imaginary_modes": "raise", "near_zero_cm": 50.0,
                        "shape_tolerance": 1e-3, "symmetry_tolerance": 0.05, "name": None, "torsions": ()}
+
+
+@pytest.mark.parametrize(("species", "factor", "unit", "conversion"), [
+    ("NH3", 1.239842e-1, "meV", r"8\.0655"),     # cm^-1 -> meV: hc/e = 1.239842e-6 eV m (CODATA 2018)
+    ("CO2", 1.239842e-4, "eV", r"8065\.54"),     # cm^-1 -> eV
+])
+def test_frequencies_in_the_wrong_unit_are_refused(species, factor, unit, conversion):
+    """NH3 in meV (largest 3444 cm^-1 = 427 meV: no X-H stretch) and CO2 in eV are refused with the factor."""
+    inputs = ref.molecular_inputs(species)
+    wrong = [f * factor for f in inputs["frequencies"]]
+    with pytest.raises(InputError, match=rf"look like {unit}: multiply by {conversion}"):
+        GasMolecule(molecule(species), wrong, multiplicity=inputs["multiplicity"])

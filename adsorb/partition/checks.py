@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from adsorb import constants as C
 from adsorb.errors import InputError
 
 
@@ -36,3 +37,48 @@ def positive_array(name, value, unit="", *, allow_zero=False):
         msg = f"{name} must be finite and {need}{' ' + unit if unit else ''}; got {first!r}"
         raise InputError(msg)
     return arr
+
+
+#: meV and eV expressed in cm^-1, for the unit suggestions below
+_CM_PER_MEV = 1e-3 / C.invcm_eV
+_CM_PER_EV = 1.0 / C.invcm_eV
+
+
+def unit_suspicion(frequencies_cm, *, has_hydrogen=False, hydrogen_stretch_cm=1000.0):
+    """Why a list of wavenumbers looks like it is in eV or meV rather than cm^-1, or None.
+
+    Two signs, both facts of the trade (common practice):
+
+    * every |ν| below 1 cm^-1 (0.12 meV): no bound molecule or adsorbate has all its
+      modes that soft, while vibrational energies *in eV* (0.005-0.5) look exactly so;
+    * a species containing hydrogen whose largest |ν| is below ``hydrogen_stretch_cm``:
+      an X-H stretch lies above ~1000 cm^-1 in every gas molecule (HI, the softest
+      common one, is near 2309 cm^-1, from memory), while the same modes *in meV* lie
+      at 190-550.
+
+    Parameters
+    ----------
+    frequencies_cm : array_like
+        The wavenumbers as given (cm^-1 expected; imaginary modes negative).
+    has_hydrogen : bool, keyword-only
+        The species contains a hydrogen atom.
+    hydrogen_stretch_cm : float, keyword-only
+        The smallest largest-|ν| accepted for a species with hydrogen (default 1000).
+
+    Returns
+    -------
+    str or None
+        One clause naming the largest |ν| and the conversion to apply.
+    """
+    a = np.abs(np.asarray(frequencies_cm, dtype=float)).ravel()
+    if a.size == 0 or not np.all(np.isfinite(a)) or a.max() == 0.0:
+        return None
+    top = float(a.max())
+    if top < 1.0:
+        return (f"every |nu| is below 1 cm^-1 (largest {top:g}); the values look like eV: "
+                f"multiply by {_CM_PER_EV:.2f} to get cm^-1")
+    if has_hydrogen and top < hydrogen_stretch_cm:
+        return (f"the species contains hydrogen but its largest |nu| is {top:g} cm^-1, below the "
+                f"{hydrogen_stretch_cm:g} cm^-1 of any X-H stretch; the values look like meV: "
+                f"multiply by {_CM_PER_MEV:.4f} to get cm^-1")
+    return None
