@@ -277,6 +277,9 @@ def _parse_wavenumber(token: str):
 
 
 def _frequencies_from_text(path: Path, text: str) -> np.ndarray:
+    if "\x00" in text:
+        raise InputError(f"frequency file '{path}': contains NUL bytes (a UTF-16 or binary file?); "
+                         "expected plain UTF-8 text of wavenumbers in cm^-1")
     values = []
     for number, line in enumerate(text.splitlines(), start=1):
         content = line.split("#", 1)[0]
