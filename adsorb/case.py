@@ -161,7 +161,9 @@ class _Loader:
 
     def energy(self, t, file_energy, needed=True):
         e = t.number("energy_eV", finite=True)
-        if e is None and file_energy is None and needed and not t.has("energy_eV"):
+        # a structure file that could not be read is already a problem: its missing energy is not another one
+        unread = t.has("structure") and any(p.startswith(f"{t.file}: {t.where('structure')}: ") for p in t.problems)
+        if e is None and file_energy is None and needed and not t.has("energy_eV") and not unread:
             t.problem("energy_eV", "no electronic energy (the structure file has none either)",
                       "a number in eV, or a structure file that carries its energy")
         return e if e is not None else file_energy
