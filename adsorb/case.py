@@ -407,7 +407,7 @@ def load_case(path) -> Case:
     raw = path.read_bytes()
     try:
         data = tomllib.loads(raw.decode("utf-8"))
-    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError, ValueError) as exc:  # ValueError: an integer of > 4300 digits
         raise CaseError([f"{path}: not valid TOML ({exc}); expected a TOML case file"]) from None
     root = Reader(path, data)
     ld = _Loader(root)

@@ -126,7 +126,7 @@ class Reader:
         return v
 
     def _num(self, key, v, positive=False, minimum=None, unit=""):
-        if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v):
+        if isinstance(v, bool) or not isinstance(v, (int, float)) or not _finite(v):
             self.problem(key, f"got {v!r}", f"a finite number{unit}")
             return None
         if positive and v <= 0:
@@ -165,7 +165,7 @@ class Reader:
         if v is None:
             return None
         ok = isinstance(v, list) and all(isinstance(r, list) and len(r) == width and all(
-            isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x) for x in r) for r in v)
+            isinstance(x, (int, float)) and not isinstance(x, bool) and _finite(x) for x in r) for r in v)
         if not ok:
             self.problem(key, f"got {v!r}", f"a list of [{width} numbers] rows")
             return None
@@ -237,6 +237,14 @@ class Reader:
     def unit_map(self, base):
         key, factor = self.unit_key(base)
         return (None, None) if key is None else (self.number_map(key, positive=True, scale=factor), key)
+
+
+def _finite(x):
+    """math.isfinite, False for an integer too large for a float (tomllib's integers are unbounded)."""
+    try:
+        return math.isfinite(x)
+    except OverflowError:
+        return False
 
 
 def parse_parameters(t, model=None):

@@ -635,7 +635,7 @@ def _outcar_from_text(path: Path, text: str) -> OutcarModes:
     if not freqs:
         raise InputError(f"OUTCAR '{path}': the dynamical-matrix block holds no frequency lines")
     eig = np.asarray(vectors, dtype=float)
-    if not (np.all(np.isfinite(eig)) and np.all(np.isfinite(freqs))):
+    if not (np.all(np.isfinite(eig)) and np.all(np.isfinite(freqs)) and np.all(np.isfinite(positions))):
         raise InputError(f"OUTCAR '{path}': non-finite numbers in the frequency block")
     return OutcarModes(
         frequencies_cm=np.asarray(freqs, dtype=float),

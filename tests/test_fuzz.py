@@ -551,7 +551,9 @@ def _case_path(workdir):
 TOML_SOUP = st.lists(st.sampled_from(list('[]{}="\'.,#\n =abc_01.5e-+*') + KEYS + list(SPECIES)),
                     max_size=60).map("".join)
 CASE_BYTES = st.one_of(st.binary(max_size=300), st.text(max_size=300), TOML_SOUP)
-CASE_BYTES_EXAMPLES = ()
+CASE_BYTES_EXAMPLES = (
+    "a = " + "9" * 5000,  # tomllib raised a plain ValueError (int of > 4300 digits), not a CaseError (adsorb/case.py)
+)
 
 
 def _check_case_bytes(workdir, content):
@@ -569,6 +571,8 @@ def test_case_bytes_fuzz(workdir, value):
 
 
 GENERATED_EXAMPLES = (
+    {"gases": {"CO": {"acentric_factor": 10**400}}},  # math.isfinite(10**400) raised OverflowError (case_schema._num)
+    {"gases": {"CO": {"symbols": ["C"], "positions_A": [[10**400, 0, 0]]}}},  # the same in Reader.vectors
     {"study": {"title": "t", "\r": []}},  # a quoted key with a line break made a two-line problem (case_schema.Reader.problem)
 )
 
@@ -653,7 +657,9 @@ def test_frequency_text_mutated_fuzz(workdir, value):
     _check_text_mutation(workdir, value)
 
 
-OUTCAR_EXAMPLES = ()
+OUTCAR_EXAMPLES = (
+    [("token", 243018, "nan")],  # a NaN position (X column) came back in OutcarModes.positions (adsorb/io.py)
+)
 
 
 def _check_outcar_mutation(workdir, edits):
