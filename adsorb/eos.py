@@ -37,6 +37,7 @@ not detected.
 
 from __future__ import annotations
 
+import re
 import warnings
 from dataclasses import dataclass
 
@@ -102,6 +103,29 @@ CRITICAL_CONSTANTS = {
         _entry("C2H4", 282.34, 50.41, 0.087),
     )
 }
+
+
+def _composition(name):
+    """Element counts of a table name such as 'C2H6' (Hill-like formulas of the table)."""
+    counts = {}
+    for symbol, n in re.findall(r"([A-Z][a-z]?)(\d*)", name):
+        counts[symbol] = counts.get(symbol, 0) + (int(n) if n else 1)
+    return counts
+
+
+def constants_for_composition(counts):
+    """The :data:`CRITICAL_CONSTANTS` entry of a molecule with these element counts, or None.
+
+    Parameters
+    ----------
+    counts : mapping of str to int
+        Element symbol -> number of atoms (e.g. ``{"N": 1, "H": 3}`` for NH3).
+    """
+    wanted = {str(k): int(v) for k, v in dict(counts).items() if int(v)}
+    for entry in CRITICAL_CONSTANTS.values():
+        if _composition(entry.name) == wanted:
+            return entry
+    return None
 
 
 def critical_constants(species):

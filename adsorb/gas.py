@@ -23,7 +23,7 @@ import numpy as np
 from adsorb import constants as C
 from adsorb import geometry
 from adsorb._gas_checks import _fmt, _number, _positive_int
-from adsorb.errors import InputError
+from adsorb.errors import InputError, ModelWarning
 from adsorb.partition.checks import unit_suspicion
 from adsorb.partition.contribution import Contribution
 from adsorb.partition.electronic import electronic
@@ -515,11 +515,39 @@ class GasMolecule:
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always")
             total = sum(c for _, c in self.motions(t, p))
+            self._ideality_check(t, p)
         for w in caught:            # keep them visible to the caller and record them with the result
             notes.append(str(w.message))
             warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
         return assemble(t, total, energy=self.energy, pressure=p, gas=True, name=self.name,
                         choices=self.choices, warnings=notes)
+
+    #: above this pressure (Pa) a gas without tabulated critical constants is flagged as unchecked
+    UNCHECKED_IDEALITY_PA = 1.0e6
+
+    def _ideality_check(self, t, p):
+        """ModelWarning where this ideal gas is used above p° but |Z - 1| > 1 % (Peng–Robinson).
+
+        The standard state (p <= p°) is the hypothetical ideal gas by definition and is never
+        flagged. Gases are matched to :data:`adsorb.eos.CRITICAL_CONSTANTS` by composition;
+        one without an entry is flagged as unchecked above ``UNCHECKED_IDEALITY_PA``.
+        """
+        if float(np.max(p)) <= C.P_STANDARD:
+            return
+        from adsorb import eos
+
+        counts = {}
+        for symbol in self.atoms.get_chemical_symbols():
+            counts[symbol] = counts.get(symbol, 0) + 1
+        entry = eos.constants_for_composition(counts)
+        if entry is not None:
+            tt, pp = np.broadcast_arrays(t, p)
+            high = pp > C.P_STANDARD
+            eos.ideality_warnings(entry, tt[high], pp[high])
+        elif float(np.max(p)) > self.UNCHECKED_IDEALITY_PA:
+            warnings.warn(f"{self.name}: ideal gas used up to {float(np.max(p)):.4g} Pa, but no critical "
+                          "constants are tabulated for it, so |Z - 1| is not checked; see adsorb.eos",
+                          ModelWarning, stacklevel=3)
 
     def __repr__(self):
         return (f"GasMolecule({self.name!r}, geometry={self.geometry!r}, symmetry_number={self.symmetry_number}, "

@@ -201,6 +201,7 @@ def test_molecule_identities(name, t, p):
                                atol=1e-6 * C.kB_eV)
 
 
+@pytest.mark.filterwarnings("ignore:ideal-gas reference:adsorb.errors.ModelWarning")   # the identity is ideal
 @given(st.floats(1.0, 1e9))
 def test_pressure_dependence(p):
     # ideal gas: S(p) - S(p°) = -k ln(p/p°), H independent of p (common practice)
@@ -211,6 +212,7 @@ def test_pressure_dependence(p):
     np.testing.assert_array_equal(a.heat_capacity, b.heat_capacity)
 
 
+@pytest.mark.filterwarnings("ignore:ideal-gas reference:adsorb.errors.ModelWarning")
 def test_broadcasting_over_temperature_and_pressure():
     gas = MOLECULES["NH3"]
     t = np.array([300.0, 600.0, 900.0])[:, None]
@@ -493,3 +495,20 @@ def test_frequencies_in_the_wrong_unit_are_refused(species, factor, unit, conver
     wrong = [f * factor for f in inputs["frequencies"]]
     with pytest.raises(InputError, match=rf"look like {unit}: multiply by {conversion}"):
         GasMolecule(molecule(species), wrong, multiplicity=inputs["multiplicity"])
+
+
+def test_ideal_gas_above_standard_pressure_is_checked():
+    """|Z - 1| > 1 % (Peng-Robinson) above p° gives a ModelWarning; p° itself (an ideal standard state) never."""
+    co2 = MOLECULES["CO2"]
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", ModelWarning)
+        co2.thermo(300.0, C.P_STANDARD)                       # standard state: ideal by definition
+        co2.thermo(1000.0, 2e5)                               # Z within 1 % (hot, low pressure)
+    # CO2 at 300 K and 50 bar, just below its vapour pressure (~67 bar at 300 K, from memory): far from ideal
+    with pytest.warns(ModelWarning, match="ideal-gas reference for CO2: .Z - 1. exceeds 0.01"):
+        table = co2.thermo([300.0, 300.0], [C.P_STANDARD, 50e5])
+    assert any("CO2" in w for w in table.warnings)
+    # a gas without tabulated critical constants is flagged as unchecked above 10 bar
+    o3 = GasMolecule(molecule("O3"), [1103.0, 701.0, 1042.0])   # O3 fundamentals (from memory)
+    with pytest.warns(ModelWarning, match="not checked"):
+        o3.thermo(300.0, 2e6)

@@ -297,6 +297,7 @@ def test_closed_form_warns_outside_its_range():
 
 
 # ------------------------------------------------------------------ identities
+@pytest.mark.filterwarnings("ignore:ideal-gas reference:adsorb.errors.ModelWarning")   # identities of the ideal gas
 @pytest.mark.parametrize("t", [20.0, 150.0, 298.15, 1000.0, 3000.0])
 def test_identities_with_a_torsion(t):
     gas = ethane(barriers_cm={3: V3_ETHANE_CM, 6: -40.0})      # invented V6 term, two-term potential
@@ -315,6 +316,7 @@ def test_identities_with_a_torsion(t):
     np.testing.assert_allclose(part.heat_capacity[1], (part.energy[2] - part.energy[0]) / (2 * h), rtol=1e-6)
 
 
+@pytest.mark.filterwarnings("ignore:ideal-gas reference:adsorb.errors.ModelWarning")
 def test_broadcasting_and_range():
     t = np.array([300.0, 600.0, 900.0])[:, None]
     p = np.array([1e3, 1e5, 1e7, 1e9])
