@@ -64,6 +64,31 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 2
 
 
+class Terminated(BaseException):
+    """Raised in the main thread when the process receives SIGTERM or SIGHUP.
+
+    A BaseException (like KeyboardInterrupt for SIGINT), so that the clean-up of
+    temporary files and folders runs on the way out and no partial output is left.
+    """
+
+
+def _raise_terminated(signum, frame):
+    raise Terminated(signum)
+
+
 def entrypoint() -> None:
-    """Console-script entry point."""
-    sys.exit(main())
+    """Console-script entry point: SIGTERM/SIGHUP/SIGINT unwind cleanly, exit 128 + signal number."""
+    import signal
+
+    for name in ("SIGTERM", "SIGHUP"):
+        if hasattr(signal, name):
+            signal.signal(getattr(signal, name), _raise_terminated)
+    try:
+        code = main()
+    except Terminated as exc:
+        print("adsorb: terminated by a signal; no output was written", file=sys.stderr)
+        code = 128 + int(exc.args[0])
+    except KeyboardInterrupt:
+        print("adsorb: interrupted; no output was written", file=sys.stderr)
+        code = 128 + int(signal.SIGINT)
+    sys.exit(code)

@@ -32,6 +32,25 @@ def _readable(folder: Path) -> None:
         os.chmod(path, (0o777 if path.is_dir() else 0o666) & ~umask)
 
 
+def _remove_stale_partials(parent: Path, name: str) -> None:
+    """Remove ``.NAME.partial-PID-*`` folders of earlier runs whose process no longer exists.
+
+    A run killed outright (SIGKILL, power loss) cannot clean up; its hidden temporary
+    folder is removed by the next run into the same DIR. Folders of live processes stay.
+    """
+    prefix = f".{name}.partial-"
+    for folder in parent.glob(f"{prefix}*"):
+        pid = folder.name[len(prefix):].split("-", 1)[0]
+        if not pid.isdigit() or int(pid) == os.getpid():
+            continue
+        try:
+            os.kill(int(pid), 0)
+        except ProcessLookupError:
+            shutil.rmtree(folder, ignore_errors=True)
+        except PermissionError:       # alive, another user's
+            pass
+
+
 def run(args) -> int:
     from adsorb.errors import InputError
 
@@ -55,7 +74,8 @@ def run(args) -> int:
     parent = out.resolve().parent
     created = [p for p in [parent, *parent.parents] if not p.exists()]
     parent.mkdir(parents=True, exist_ok=True)
-    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.partial-", dir=parent))
+    _remove_stale_partials(parent, out.name)
+    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.partial-{os.getpid()}-", dir=parent))
     try:
         doc = write_results(run_study(case), tmp)
         _readable(tmp)
