@@ -111,8 +111,10 @@ class Reader:
         v = self._get(key, required, "an integer")
         if v is None:
             return default
-        if isinstance(v, bool) or not isinstance(v, int) or (minimum is not None and v < minimum):
-            self.problem(key, f"got {v!r}", "an integer" + (f" >= {minimum}" if minimum is not None else ""))
+        # TOML integers are 64-bit; tomllib reads longer ones, which later overflow float arithmetic
+        if (isinstance(v, bool) or not isinstance(v, int) or not -(2**63) <= v < 2**63
+                or (minimum is not None and v < minimum)):
+            self.problem(key, f"got {v!r}", "a 64-bit integer" + (f" >= {minimum}" if minimum is not None else ""))
             return default
         return v
 
