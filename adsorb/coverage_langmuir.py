@@ -135,6 +135,10 @@ def _prepare(K, pressures, temperature, spec_args, need_temperature):
         msg = (f"K and pressures: expected arrays with the species on axis 0, got shapes "
                f"{K.shape} and {p.shape}")
         raise InputError(msg)
+    if K.shape[0] == 0 or p.shape[0] == 0:
+        msg = (f"K and pressures: expected at least one species on axis 0, got shapes "
+               f"{K.shape} and {p.shape}")
+        raise InputError(msg)
     _check_finite_nonneg(K, "K", "Pa^-1")
     _check_finite_nonneg(p, "pressures", "Pa")
     n = K.shape[0] if K.shape[0] != 1 else p.shape[0]

@@ -92,7 +92,13 @@ def reaction_terms(terms) -> ReactionTerms:
     de = 0.0
     dz = dth = dh = ds = dg = 0.0
     for coef, s in terms:
-        coef = float(coef)
+        try:
+            coef = float(coef)
+        except (TypeError, ValueError):
+            coef = np.nan
+        if not np.isfinite(coef):
+            msg = f"reaction_terms: a stoichiometric coefficient must be a finite number, got {coef!r}"
+            raise InputError(msg)
         if isinstance(s, ThermoTable):
             de = de + coef * s.energy
             dz = dz + coef * s.zpe
@@ -106,6 +112,9 @@ def reaction_terms(terms) -> ReactionTerms:
             except (TypeError, ValueError):
                 msg = f"reaction_terms: species must be a ThermoTable or an energy in eV, got {s!r}"
                 raise InputError(msg) from None
+            if not np.isfinite(e):
+                msg = f"reaction_terms: a fixed electronic energy must be a finite number in eV, got {s!r}"
+                raise InputError(msg)
             de, dh, dg = de + coef * e, dh + coef * e, dg + coef * e
     b = lambda a: np.broadcast_to(np.asarray(a, dtype=float), np.shape(dg)).copy()  # noqa: E731
     return ReactionTerms(temperature=b(t), delta_energy=float(de), delta_zpe=b(dz), delta_thermal=b(dth),

@@ -46,6 +46,7 @@ import numpy as np
 
 from adsorb import constants as C
 from adsorb.errors import InputError
+from adsorb.partition.checks import positive_array
 
 __all__ = ["STANDARD_STATES", "StandardThermo", "standard_coverage", "standard_thermo", "describe_state"]
 
@@ -90,13 +91,17 @@ def standard_coverage(state: str, temperature, site_area_A2=None, *, pressure=C.
         Gas standard pressure p° in Pa (default 1 bar).
     """
     _check_state(state)
-    t = np.asarray(temperature, dtype=float)
+    t = positive_array("standard_coverage temperature", temperature, "K")
     if state == "lattice-half":
         return np.full(t.shape, 0.5)
-    if site_area_A2 is None or not np.isfinite(site_area_A2) or site_area_A2 <= 0:
+    try:
+        area_A2 = float(site_area_A2)
+    except (TypeError, ValueError):
+        area_A2 = np.nan
+    if not (np.isfinite(area_A2) and area_A2 > 0):
         msg = f"standard state {state!r} needs the area per site in Å^2 (site_area_A2 > 0), got {site_area_A2!r}"
         raise InputError(msg)
-    area = site_area_A2 * C.angstrom**2
+    area = area_A2 * C.angstrom**2
     if state == "savara-2d":
         return np.full(t.shape, savara_concentration_mol_m2(pressure) * C.N_A * area)
     per_molecule = (C.k_B * t / pressure) ** (2.0 / 3.0) * np.exp(-1.0 / 3.0)

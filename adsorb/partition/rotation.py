@@ -122,7 +122,10 @@ def nonlinear_rotor(temperature, abc_cm, symmetry_number=1) -> Contribution:
         length 3, or a bad symmetry number.
     """
     t = _positive("temperature", temperature, "K")
-    abc = np.asarray(abc_cm, dtype=float)
+    try:
+        abc = np.asarray(abc_cm, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(f"abc_cm must be numbers (A, B, C) in cm^-1, got {abc_cm!r}") from None
     if abc.ndim == 0 or abc.shape[-1] != 3:
         raise InputError(
             f"abc_cm must hold three rotational constants (A, B, C) in cm^-1 on its last axis; "
