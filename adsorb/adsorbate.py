@@ -329,6 +329,7 @@ class Adsorbate:
                 else:
                     from adsorb.geometry import inertia_about_normal
 
+                    self._require_surface_normal("the moment of inertia about the normal (or give 'inertia')")
                     self.inertia = float(inertia_about_normal(self.atoms, self.indices))
                     if self.inertia <= 0:
                         msg = "Adsorbate inertia about the surface normal is zero (atoms on the axis); give 'inertia'"
@@ -340,6 +341,14 @@ class Adsorbate:
             self.translation_barrier = None
             if "translation_barrier" in p:
                 self.translation_barrier = float(_nonnegative_number("translation_barrier", p["translation_barrier"]))
+
+    def _require_surface_normal(self, purpose):
+        """InputError unless ``atoms`` has a cell from which the surface normal follows."""
+        cell = np.asarray(self.atoms.cell[:], dtype=float)
+        if not np.any(np.linalg.norm(cell, axis=1) > 0.0):
+            msg = (f"Adsorbate {self.name}: atoms has no cell, so the surface normal is unknown; model "
+                   f"{self.model!r} needs it for {purpose}: give the slab with its cell (vacuum along a3)")
+            raise InputError(msg)
 
     # ------------------------------------------------------- mode assignment
     def implied_frequencies(self):
@@ -388,6 +397,7 @@ class Adsorbate:
             if self.atoms is None:
                 msg = "Adsorbate parameter 'mode_vectors' needs `atoms` (to know masses and the surface normal)"
                 raise InputError(msg)
+            self._require_surface_normal("the projection of 'mode_vectors' on surface translations and rotation")
             vectors = np.asarray(mode_vectors, dtype=float)
             if vectors.shape != (nu.size, self.n_atoms, 3):
                 msg = (f"Adsorbate parameter 'mode_vectors': expected shape ({nu.size}, {self.n_atoms}, 3), "

@@ -365,3 +365,19 @@ def test_hydrogen_adsorbate_in_mev_is_flagged():
     with warnings.catch_warnings():
         warnings.simplefilter("error", ModelWarning)
         Adsorbate(cm, atoms=h, indices=[0])
+
+
+def test_surface_model_needs_a_normal_from_the_cell():
+    """Without a cell the normal is unknown: the hindered rotor's moment about it is refused, not guessed."""
+    from ase import Atoms
+
+    co = Atoms("CO", positions=[[0, 0, 0], [0.3, 0, 1.15]])   # invented tilted CO*, no cell
+    params = {k: v for k, v in HINDERED.items() if k not in ("inertia", "mass")}
+    with pytest.raises(InputError, match="no cell, so the surface normal is unknown"):
+        Adsorbate(FREQS, model="hindered", atoms=co, indices=[0, 1], **params)
+    co.cell = [8.0, 8.0, 20.0]
+    co.pbc = [True, True, False]
+    assert Adsorbate(FREQS, model="hindered", atoms=co, indices=[0, 1], **params).inertia > 0
+    # an explicit inertia needs no normal
+    Adsorbate(FREQS, model="hindered", atoms=Atoms("CO", positions=co.positions), indices=[0, 1],
+              inertia=8.7, **params)
