@@ -78,7 +78,7 @@ def unit_suspicion(frequencies_cm, *, has_hydrogen=False, hydrogen_stretch_cm=10
         return (f"every |nu| is below 1 cm^-1 (largest {top:g}); the values look like eV: "
                 f"multiply by {_CM_PER_EV:.2f} to get cm^-1")
     if has_hydrogen and top < hydrogen_stretch_cm:
-        return (f"the species contains hydrogen but its largest |nu| is {top:g} cm^-1, below the "
+        return (f"the largest |nu| of a species with hydrogen is {top:g} cm^-1, below the "
                 f"{hydrogen_stretch_cm:g} cm^-1 of any X-H stretch; the values look like meV: "
                 f"multiply by {_CM_PER_MEV:.4f} to get cm^-1")
     return None
