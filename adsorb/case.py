@@ -176,6 +176,9 @@ class _Loader:
                       else "no frequencies given", "a list of wavenumbers in cm^-1 or a frequency file")
             return None, None
         key = keys[0]
+        if key != "frequencies_file" and t.has("frequencies_format"):
+            t.problem("frequencies_format", f"not used with {key}", "frequencies_format only beside frequencies_file")
+            return None, None
         if key == "frequencies_cm":
             nu = t.numbers(key, finite=True)
             if nu is not None and not nu:
