@@ -309,6 +309,10 @@ class Conditions:
     standard_state: str | None = None
 
 
+#: the most points a {start, stop, step | count} grid of a case file may have
+MAX_GRID_POINTS = 100_000
+
+
 def read_grid(t, key, *, log_default=False):
     """``{start, stop, step}`` or ``{start, stop, count, spacing}`` -> list of values (or None)."""
     g = t.table(key, required=True)
@@ -325,6 +329,10 @@ def read_grid(t, key, *, log_default=False):
         return None
     if (step is None) == (count is None):
         g.problem("step", "give exactly one of step and count", "step (a number > 0) or count (an integer >= 1)")
+        return None
+    points = count if step is None else (stop + 0.5 * step - start) / step + 0.5  # inf if stop + step/2 overflows
+    if points > MAX_GRID_POINTS:  # a typo, and a memory error in numpy
+        g.problem("count" if step is None else "step", f"{points:.6g} grid points", f"at most {MAX_GRID_POINTS}")
         return None
     import numpy as np
 

@@ -557,7 +557,8 @@ def _outcar_masses(lines, n_atoms: int):
             if "POMASS" in nxt and "=" in nxt:
                 # F6.2 fields may touch each other ("12.01195.08"): split on the 2 decimals
                 type_masses = [float(x) for x in re.findall(r"\d+\.\d\d", nxt.split("=", 1)[1])]
-    if counts is None or type_masses is None or len(counts) != len(type_masses) or sum(counts) != n_atoms:
+    if (counts is None or type_masses is None or len(counts) != len(type_masses) or sum(counts) != n_atoms
+            or min(counts) < 0):
         return None
     return np.repeat(np.asarray(type_masses, dtype=float), counts)
 
@@ -693,6 +694,9 @@ def _outcar_vibrations(path: Path, masses_amu) -> VibrationSet:
             "pass masses_amu= (one mass per atom, in amu) to turn the eigenvectors into displacements"
         )
     moving = np.flatnonzero(np.any(parsed.eigenvectors != 0.0, axis=(0, 2)))
+    if np.any(masses[moving] <= 0):  # only the POMASS line can give these (masses_amu is checked above)
+        raise InputError(f"OUTCAR '{path}': the POMASS line gives a displaced atom the mass {masses[moving].min():g} amu; "
+                         "expected positive masses (or pass masses_amu=, one mass per atom in amu)")
     disp = parsed.eigenvectors[:, moving, :] / np.sqrt(masses[moving])[None, :, None]
     atoms = None
     try:
