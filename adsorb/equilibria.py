@@ -24,16 +24,56 @@ C 2016, 120, 10283; Savara, J. Phys. Chem. C 2013, 117, 15710).
 
 from __future__ import annotations
 
+import warnings
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from adsorb import constants as C
-from adsorb.errors import InputError
+from adsorb.errors import InputError, ModelWarning
 from adsorb.standard_states import describe_state, standard_coverage
 from adsorb.thermo import ThermoTable
 
-__all__ = ["ReactionTerms", "reaction_terms", "AdsorptionEquilibrium", "adsorption_equilibrium"]
+__all__ = ["ReactionTerms", "reaction_terms", "AdsorptionEquilibrium", "adsorption_equilibrium",
+           "capped_exp"]
+
+#: ln of the largest finite double; exp() of a larger number overflows
+LN_FLOAT_MAX = float(np.log(np.finfo(float).max))
+
+
+def capped_exp(ln_value, temperature, what, exact=""):
+    """exp(ln_value), capped at the largest finite double, with a ModelWarning where capped.
+
+    An equilibrium constant exp(-dG/kT) leaves the floating-point range at low
+    temperature for strong binding (dG = -0.5 eV at 1 K gives ln K = 5800).
+    Where ln_value > ln(1.8e308) the value is capped at 1.8e308: the coverages
+    built on it are saturated (theta = 1 to double precision) but theta_* is then
+    only an upper bound; the exact logarithm is ``ln_value`` itself. Below
+    ln(5e-324) the value underflows quietly to 0 (the species does not adsorb).
+
+    Parameters
+    ----------
+    ln_value : array_like
+        Natural logarithm of the value.
+    temperature : array_like
+        Temperature in K, broadcast against ``ln_value`` (named in the warning).
+    what : str
+        What the value is, for the warning.
+    exact : str, optional
+        Where the caller keeps the exact logarithm, named in the warning.
+    """
+    ln_value = np.asarray(ln_value, dtype=float)
+    over = ln_value > LN_FLOAT_MAX
+    if np.any(over):
+        t = np.broadcast_to(np.asarray(temperature, dtype=float), ln_value.shape)
+        warnings.warn(
+            f"{what} exceeds the floating-point range (ln = {float(ln_value.max()):.6g} > "
+            f"{LN_FLOAT_MAX:.6g}) at {int(over.sum())} of {over.size} points, T from "
+            f"{float(t[over].min()):.6g} to {float(t[over].max()):.6g} K; capped at "
+            f"{np.finfo(float).max:.3g} there (coverage saturated, empty-site fraction only an "
+            f"upper bound){'; exact logarithm: ' + exact if exact else ''}", ModelWarning, stacklevel=3)
+    with np.errstate(under="ignore"):
+        return np.exp(np.minimum(ln_value, LN_FLOAT_MAX))
 
 
 @dataclass(frozen=True)
@@ -137,6 +177,17 @@ class AdsorptionEquilibrium:
     notes: tuple = field(default=())
 
     @property
+    def ln_equilibrium_constant(self):
+        """ln(K / Pa^-1) = -dG/kT - ln p°, exact where K itself is capped (see :func:`capped_exp`)."""
+        kt = C.kB_eV * self.terms.temperature
+        return -self.terms.delta_gibbs / kt - np.log(C.P_STANDARD)
+
+    @property
+    def ln_standard_constant(self):
+        """ln K° = -dG°/kT, exact where K° itself is capped."""
+        return -self.delta_gibbs_standard / (C.kB_eV * self.terms.temperature)
+
+    @property
     def dissociative(self) -> bool:
         """True when one gas molecule gives two adsorbed fragments."""
         return self.n_adsorbed == 2
@@ -216,7 +267,8 @@ def adsorption_equilibrium(adsorbate: ThermoTable, gas: ThermoTable, slab_energy
             raise InputError(msg)
         ln_term = np.log(theta0) - np.log1p(-theta0)
     dg0 = terms.delta_gibbs + n * kt * ln_term
-    k_pa = np.exp(-terms.delta_gibbs / kt) / C.P_STANDARD
+    k_pa = capped_exp(-terms.delta_gibbs / kt - np.log(C.P_STANDARD), t,
+                      "adsorption_equilibrium: K = exp(-dG/kT)/p°", "ln_equilibrium_constant")
     notes = []
     if mobile:
         notes.append("mobile adsorbate: K applies to the dilute (Henry) limit of the 2D gas; the Langmuir "
@@ -225,4 +277,6 @@ def adsorption_equilibrium(adsorbate: ThermoTable, gas: ThermoTable, slab_energy
                                  standard_state=standard_state,
                                  standard_state_description=describe_state(standard_state),
                                  standard_coverage=theta0, delta_gibbs_standard=dg0,
-                                 standard_constant=np.exp(-dg0 / kt), mobile=mobile, notes=tuple(notes))
+                                 standard_constant=capped_exp(-dg0 / kt, t, "adsorption_equilibrium: K° = exp(-dG°/kT)",
+                                                             "ln_standard_constant"),
+                                 mobile=mobile, notes=tuple(notes))

@@ -25,6 +25,7 @@ import numpy as np
 
 from adsorb import constants
 from adsorb.coverage import CoverageSolution, pressures_for_coverage, site_coverages
+from adsorb.equilibria import capped_exp
 from adsorb.errors import InputError
 from adsorb.fileout import write_figure
 
@@ -121,7 +122,9 @@ class AdsorptionModel:
         def k_of_t(temperature):
             T = np.asarray(temperature, dtype=float)
             dg = np.array([np.broadcast_to(f(T), T.shape) for f in funcs], dtype=float)
-            return np.exp(-dg / (constants.kB_eV * T)) / p_standard
+            # capped where exp(-dG°/kT) leaves the floating-point range (strong binding at low T)
+            return capped_exp(-dg / (constants.kB_eV * T) - np.log(p_standard), T,
+                              "AdsorptionModel.from_gibbs: K = exp(-dG°/kT)/p°")
 
         return cls(names, k_of_t, **options)
 
