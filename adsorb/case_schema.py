@@ -292,6 +292,9 @@ def formula_counts(formula, t, key):
     if not parts or "".join(a + b for a, b in parts) != formula:
         t.problem(key, f"cannot read formula {formula!r}", "element symbols with counts, e.g. 'NH3' or 'OOH'")
         return None
+    if any(len(n) > 18 for _, n in parts):  # a 400-digit count overflowed the atom balance
+        t.problem(key, f"formula {formula!r} has a count of more than 18 digits", "counts below 10^18")
+        return None
     counts = {}
     for el, n in parts:
         counts[el] = counts.get(el, 0) + (int(n) if n else 1)

@@ -615,6 +615,10 @@ def test_case_toml_generated_fuzz(workdir, value):
 
 MUTATED_CASE = st.tuples(st.sampled_from(BASE_CASES), MUTATIONS)
 MUTATED_EXAMPLES = (
+    # H2O position -0.7632 * 1e300 Å: numpy's eigh raised LinAlgError in the moments of inertia (geometry._check_atoms)
+    ("cases/orr_fictitious_sites.toml", [("extreme", 865, [], "")]),
+    # formula = "C<400 nines>O": the atom balance raised OverflowError (case_schema.formula_counts)
+    ("tests/bad_cases/base_valid.toml", [("replace", 37, "C" + "9" * 400 + "O", "")]),
     # nasa temperature_range_K.stop = 2**62 K: numpy could not allocate the grid (case_schema.read_grid)
     ("cases/ammonia_mx0001.toml", [("extreme", 29979, [], "acentric_factor")]),
     # proton_electron_pairs = 10**400 overflowed the atom balance (case_links._check_balance): Reader.integer is 64-bit

@@ -15,8 +15,12 @@ import numpy as np
 from adsorb.errors import InputError
 
 
+#: the largest |coordinate| accepted, Å (1 m: beyond any structure; the inertia tensor overflows near 1e150 Å)
+MAX_COORDINATE_A = 1e10
+
+
 def _check_atoms(atoms, name: str = "atoms"):
-    """Raise InputError unless ``atoms`` is a non-empty ase.Atoms."""
+    """Raise InputError unless ``atoms`` is a non-empty ase.Atoms with finite positions of sensible size."""
     from ase import Atoms
 
     if not isinstance(atoms, Atoms):
@@ -24,6 +28,10 @@ def _check_atoms(atoms, name: str = "atoms"):
         raise InputError(msg)
     if len(atoms) == 0:
         msg = f"{name}: the Atoms object is empty (0 atoms); expected at least one atom"
+        raise InputError(msg)
+    extent = np.max(np.abs(atoms.positions))
+    if not extent <= MAX_COORDINATE_A:  # NaN fails too
+        msg = f"{name}: a position coordinate is {float(extent)!r} Å; expected finite positions within ±{MAX_COORDINATE_A:g} Å"
         raise InputError(msg)
 
 
