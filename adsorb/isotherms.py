@@ -61,6 +61,11 @@ class AdsorptionModel:
         Gas-phase precursor of each species (one distinct gas per species), for the
         Peng–Robinson fugacities (``real_gas=True`` in the scans) and for the
         ideal-gas check (a ModelWarning when |Z - 1| > 1 % while pressures are used).
+    ln_equilibrium_constants : callable, optional
+        ``ln K_of_T(temperature)``, same shape: the exact ln K, used by
+        :func:`isosteric_heat` where K itself is capped at the largest double
+        (strong binding at low T; :func:`adsorb.equilibria.capped_exp`). Set by
+        :meth:`from_gibbs`; default ln of ``equilibrium_constants``.
     """
 
     names: tuple
@@ -70,6 +75,7 @@ class AdsorptionModel:
     sites_per_species: tuple | None = None
     site_kind: tuple | None = None
     gases: tuple | None = None
+    ln_equilibrium_constants: Callable | None = None
 
     def __post_init__(self):
         names = tuple(self.names)
@@ -119,14 +125,17 @@ class AdsorptionModel:
             msg = f"p_standard: expected a pressure > 0 in Pa, got {p_standard!r}"
             raise InputError(msg)
 
-        def k_of_t(temperature):
+        def ln_k_of_t(temperature):
             T = np.asarray(temperature, dtype=float)
             dg = np.array([np.broadcast_to(f(T), T.shape) for f in funcs], dtype=float)
+            return -dg / (constants.kB_eV * T) - np.log(p_standard)
+
+        def k_of_t(temperature):
             # capped where exp(-dG°/kT) leaves the floating-point range (strong binding at low T)
-            return capped_exp(-dg / (constants.kB_eV * T) - np.log(p_standard), T,
+            return capped_exp(ln_k_of_t(temperature), temperature,
                               "AdsorptionModel.from_gibbs: K = exp(-dG°/kT)/p°")
 
-        return cls(names, k_of_t, **options)
+        return cls(names, k_of_t, ln_equilibrium_constants=ln_k_of_t, **options)
 
     @property
     def n_species(self):
@@ -343,12 +352,19 @@ def isosteric_heat(model, coverage, temperature, *, relative_step=1e-3):
         raise InputError(msg)
     h = relative_step * T
 
+    unit_k = np.ones((model.n_species,) + grid)
+
     def ln_p(TT):
-        K = model.constants_at(TT)
+        # K enters the site balance only as K_i p_i, so p_i = p_i(K = 1) / K_i exactly:
+        # ln K is differentiated directly (exact where K itself is capped at low T)
+        if model.ln_equilibrium_constants is None:
+            ln_k = np.log(model.constants_at(TT))
+        else:
+            ln_k = np.asarray(model.ln_equilibrium_constants(TT), dtype=float)
         return np.log(pressures_for_coverage(
-            K, theta, model.dissociative, model.interactions,
+            unit_k, theta, model.dissociative, model.interactions,
             TT if model.interactions is not None else None,
-            sites_per_species=model.sites_per_species, site_kind=model.site_kind))
+            sites_per_species=model.sites_per_species, site_kind=model.site_kind)) - ln_k
 
     d = (ln_p(T - 2 * h) - 8 * ln_p(T - h) + 8 * ln_p(T + h) - ln_p(T + 2 * h)) / (12 * h)
     return constants.kB_eV * T**2 * d
