@@ -269,6 +269,7 @@ def adsorption_equilibrium(adsorbate: ThermoTable, gas: ThermoTable, slab_energy
     dg0 = terms.delta_gibbs + n * kt * ln_term
     k_pa = capped_exp(-terms.delta_gibbs / kt - np.log(C.P_STANDARD), t,
                       "adsorption_equilibrium: K = exp(-dG/kT)/p°", "ln_equilibrium_constant")
+    k0 = capped_exp(-dg0 / kt, t, "adsorption_equilibrium: K° = exp(-dG°/kT)", "ln_standard_constant")
     notes = []
     if mobile:
         notes.append("mobile adsorbate: K applies to the dilute (Henry) limit of the 2D gas; the Langmuir "
@@ -277,6 +278,4 @@ def adsorption_equilibrium(adsorbate: ThermoTable, gas: ThermoTable, slab_energy
                                  standard_state=standard_state,
                                  standard_state_description=describe_state(standard_state),
                                  standard_coverage=theta0, delta_gibbs_standard=dg0,
-                                 standard_constant=capped_exp(-dg0 / kt, t, "adsorption_equilibrium: K° = exp(-dG°/kT)",
-                                                             "ln_standard_constant"),
-                                 mobile=mobile, notes=tuple(notes))
+                                 standard_constant=k0, mobile=mobile, notes=tuple(notes))
