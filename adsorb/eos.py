@@ -235,8 +235,6 @@ def _cubic_real_roots(a2, a1, a0):
     ang = np.arccos(cos_arg) / 3.0
     t_hi = 2.0 * r * np.cos(ang)
     t_lo = 2.0 * r * np.cos(ang + 2.0 * np.pi / 3.0)
-    z_hi = np.where(three, t_hi, t1) - shift
-    z_lo = np.where(three, t_lo, t1) - shift
 
     def polish(z):
         for _ in range(3):
@@ -245,7 +243,24 @@ def _cubic_real_roots(a2, a1, a0):
             z = z - np.where(d != 0, f / np.where(d != 0, d, 1.0), 0.0)
         return z
 
-    return polish(z_hi), polish(z_lo), three
+    z_hi = polish(np.where(three, t_hi, t1) - shift)
+    # With three roots the smallest comes from the quadratic left after dividing out the largest
+    # (Vieta: z_mid + z_lo = -a2 - z_hi, z_mid z_lo = -a0/z_hi), as its root c/q, free of
+    # cancellation (Press et al., Numerical Recipes, 2nd ed., §5.6, from memory). The
+    # trigonometric form gives it as a difference of numbers of order one, which loses its digits
+    # when the root is far below one (tiny B: liquid roots at low reduced pressure, off by 4 %).
+    deflate = three & (z_hi != 0)
+    bq = a2 + z_hi
+    cq = -a0 / np.where(deflate, z_hi, 1.0)
+    qq = -0.5 * (bq + np.copysign(np.sqrt(np.maximum(bq * bq - 4.0 * cq, 0.0)), bq))
+    small = np.where(qq != 0, np.minimum(qq, cq / np.where(qq != 0, qq, 1.0)), 0.0)
+    z_lo = polish(np.where(deflate, small, np.where(three, t_lo, t1) - shift))
+    # a near-double pair that rounding made real (disc < 0 by a hair) has no root there: Newton
+    # wanders off, so only a small root that satisfies the cubic counts as a third root
+    f_lo = ((z_lo + a2) * z_lo + a1) * z_lo + a0
+    size = np.abs(z_lo) ** 3 + np.abs(a2) * z_lo**2 + np.abs(a1 * z_lo) + np.abs(a0)
+    three = three & (np.abs(f_lo) <= 1e-10 * size)
+    return z_hi, z_lo, three
 
 
 def _log_ratio(Z, B):
