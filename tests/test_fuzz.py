@@ -258,17 +258,16 @@ VALUE = st.recursive(LEAF, lambda inner: st.one_of(st.lists(inner, max_size=4),
 _entry = st.dictionaries(st.one_of(st.sampled_from(KEYS), st.text(max_size=6)), VALUE, max_size=8)
 _named = st.dictionaries(st.one_of(st.sampled_from(SPECIES), st.text(max_size=6)), _entry, max_size=3)
 _NAMED_SECTIONS = ("gases", "surfaces", "adsorbates", "pathways")
-GENERATED_CASE = st.builds(
-    lambda sections, extra: {**sections, **extra},
-    st.fixed_dictionaries({}, optional={k: (_named if k in _NAMED_SECTIONS else _entry) for k in case_schema.CASE_KEYS}),
-    st.dictionaries(st.text(max_size=6), VALUE, max_size=2))
+_sections = {k: (_named if k in _NAMED_SECTIONS else _entry) for k in case_schema.CASE_KEYS}
+GENERATED_CASE = st.builds(lambda sections, extra: {**sections, **extra}, st.fixed_dictionaries({}, optional=_sections),
+                           st.dictionaries(st.text(max_size=6), VALUE, max_size=2))
 
 
 # --------------------------------------------------------------------------- mutations of valid inputs
 
 
 def _paths(node, prefix=()):
-    """Every (container path, key) in a TOML tree, depth first."""
+    """Every key path in a tree of dicts and lists (TOML or JSON), depth first."""
     out = []
     items = node.items() if isinstance(node, dict) else enumerate(node) if isinstance(node, list) else ()
     for k, v in items:
@@ -437,15 +436,6 @@ def _vibration_json():
     return json.loads(_vibration_json_text())
 
 
-def _json_leaves(node, prefix=()):
-    out = []
-    items = node.items() if isinstance(node, dict) else enumerate(node) if isinstance(node, list) else ()
-    for k, v in items:
-        out.append(prefix + (k,))
-        out += _json_leaves(v, prefix + (k,))
-    return out
-
-
 JSON_VALUE = st.recursive(
     st.one_of(st.none(), st.booleans(), st.integers(-5, 10), st.integers(), st.floats(), st.text(max_size=8),
               st.sampled_from(["float64", "int64", "bool", "complex128", "atoms", "vibrationsdata", "__ndarray__"])),
@@ -459,7 +449,7 @@ JSON_EDITS = st.lists(st.tuples(st.sampled_from(("drop", "replace", "scale")), s
 def _edit_json(document, edits):
     doc = copy.deepcopy(document)
     for op, selector, value, factor in edits:
-        paths = _json_leaves(doc)
+        paths = _paths(doc)
         if not paths:
             return value
         path = paths[selector % len(paths)]
