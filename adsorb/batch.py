@@ -138,7 +138,7 @@ def screen_database(path, selection=None, temperature=298.15, *, pressure_Pa=Non
     InputError
         Missing references, keys, energies or frequencies (the message names the row).
     """
-    from adsorb.equilibria import reaction_terms
+    from adsorb.equilibria import capped_exp, reaction_terms
     from adsorb.io import select_rows
     from adsorb.partition.vibration import harmonic
     from adsorb.thermo import assemble
@@ -186,7 +186,8 @@ def screen_database(path, selection=None, temperature=298.15, *, pressure_Pa=Non
             terms = reaction_terms([(m, ads), (-1, gas_tables[gas])])     # thermal parts; electronic below
             g = terms.delta_gibbs + d_e[rows[sl]][None, :]
             dg[rows[sl]] = g.T
-            k_pa[rows[sl]] = (np.exp(-g / kt[:, None]) / C.P_STANDARD).T
+            k_pa[rows[sl]] = capped_exp(-g / kt[:, None] - np.log(C.P_STANDARD), t[:, None],
+                                        f"K of database '{path}' rows", "delta_gibbs_eV").T
     d_e -= np.array([gases[g].energy for g in gas_names]) if n else 0.0
     coverage = None
     if pressure_Pa is not None:

@@ -124,3 +124,17 @@ def test_batch_refuses_overwrite_and_bad_rows(database, tmp_path, capsys):
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and f"row id={bad_id}" in err[0]
     assert not (tmp_path / "y.csv").exists()
+
+
+def test_strong_binding_at_low_temperature_caps_k_with_a_warning(database):
+    """At 3 K, K = exp(-dG/kT)/p° of a bound row exceeds the largest double: capped with a ModelWarning, no inf."""
+    from adsorb.batch import screen_database
+    from adsorb.errors import ModelWarning
+
+    with pytest.warns(ModelWarning, match="exceeds the floating-point range"):
+        res = screen_database(database, None, [3.0, 300.0], pressure_Pa=1e5)
+    k = res.equilibrium_constant_per_Pa
+    assert np.all(np.isfinite(k)) and np.all(np.isfinite(res.coverage))
+    bound = res.delta_gibbs_eV[:, 0] < -0.2      # ln K = 770 and more at 3 K: beyond ln(1.8e308) = 709.8
+    assert np.any(bound) and np.all(k[bound, 0] > 0.99 * np.finfo(float).max)
+    np.testing.assert_allclose(res.coverage[bound, 0], 1.0, rtol=0, atol=1e-15)

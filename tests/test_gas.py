@@ -157,7 +157,8 @@ def test_zpe_and_energy_zero():
     np.testing.assert_allclose(a.entropy, b.entropy, rtol=1e-15)
     # H(T) -> energy + ZPE as T -> 0 apart from the classical translation/rotation terms (4 kT for a
     # nonlinear molecule: 3/2 + 3/2 + 1 for pV), McQuarrie 1976
-    cold = gas.thermo(2.0)
+    with pytest.warns(ModelWarning, match="classical rotor is used below"):   # CH4: theta_rot = 7.5 K
+        cold = gas.thermo(2.0)
     np.testing.assert_allclose(cold.enthalpy - (-24.0 + gas.zpe), 4 * C.kB_eV * 2.0, rtol=1e-9)
 
 
@@ -228,9 +229,11 @@ def test_broadcasting_over_temperature_and_pressure():
 
 
 def test_range_sweep_no_warnings():
+    """No warning from 1 to 5000 K except the classical rotor's below its rotational temperature."""
     t = np.geomspace(1.0, 5000.0, 60)
     with warnings.catch_warnings():
         warnings.simplefilter("error")
+        warnings.filterwarnings("ignore", ".*classical rotor is used below", ModelWarning)
         for name in ("Ar", "O2", "CO2", "NH3"):
             table = MOLECULES[name].thermo(t)
             assert np.all(np.isfinite(table.gibbs)) and np.all(np.isfinite(table.heat_capacity))
@@ -512,3 +515,15 @@ def test_ideal_gas_above_standard_pressure_is_checked():
     o3 = GasMolecule(molecule("O3"), [1103.0, 701.0, 1042.0])   # O3 fundamentals (from memory)
     with pytest.warns(ModelWarning, match="not checked"):
         o3.thermo(300.0, 2e6)
+
+
+@pytest.mark.parametrize(("species", "theta"), [("CO", 2.77), ("H2O", 40.1)])
+def test_classical_rotor_below_its_rotational_temperature_warns(species, theta):
+    """theta_rot = hcA/k: CO (B = 1.9313 cm^-1 -> 2.78 K), H2O (A = 27.88 cm^-1 -> 40.1 K), NIST CCCBDB, from memory."""
+    gas = build(species)
+    assert gas.rotor == "classical"
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", ModelWarning)
+        gas.thermo(1.05 * theta)
+    with pytest.warns(ModelWarning, match="classical rotor is used below its rotational temperature"):
+        gas.thermo([0.9 * theta, 300.0])
