@@ -81,7 +81,11 @@ def isosteric_run(study, spec) -> IsostericRun:
     def k_of_t(temperature):
         return np.asarray(study.equilibrium(name, temperature).equilibrium_constant, dtype=float)[None]
 
-    model = AdsorptionModel([name], k_of_t, dissociative=[spec.dissociative], sites_per_species=[spec.sites],
+    def ln_k_of_t(temperature):       # exact where K itself is capped (strong binding at low T)
+        return np.asarray(study.equilibrium(name, temperature).ln_equilibrium_constant, dtype=float)[None]
+
+    model = AdsorptionModel([name], k_of_t, ln_equilibrium_constants=ln_k_of_t,
+                            dissociative=[spec.dissociative], sites_per_species=[spec.sites],
                             interactions=[[spec.self_interaction_eV]] if spec.interactions else None)
     temps = np.asarray(spec.temperatures_K, dtype=float)
     theta = np.asarray(spec.coverages_ML, dtype=float)
