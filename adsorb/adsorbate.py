@@ -88,6 +88,12 @@ def _suggest(key: str, options) -> str:
     return f" (did you mean {close[0]!r}?)" if close else ""
 
 
+#: smallest physically meaningful values, far below any real case (an electron is 5.5e-4 amu, the
+#: H2 bond 0.74 Å); smaller positive numbers only underflow once converted to SI units
+_SMALLEST = {"mass": (1e-3, "amu"), "site_spacing": (1e-2, "Å"), "site_area": (1e-4, "Å^2"),
+             "inertia": (1e-4, "amu Å^2"), "frequency_floor": (1e-3, "cm^-1")}
+
+
 def _positive_number(key: str, value) -> float:
     try:
         v = float(value)
@@ -96,6 +102,10 @@ def _positive_number(key: str, value) -> float:
         raise InputError(msg) from None
     if not np.isfinite(v) or v <= 0:
         msg = f"Adsorbate parameter {key!r}: expected a finite number > 0, got {value!r}"
+        raise InputError(msg)
+    smallest, unit = _SMALLEST.get(key, (0.0, ""))
+    if v < smallest:
+        msg = f"Adsorbate parameter {key!r}: expected at least {smallest:g} {unit}, got {value!r}"
         raise InputError(msg)
     return v
 

@@ -683,7 +683,10 @@ def _outcar_vibrations(path: Path, masses_amu) -> VibrationSet:
     n_atoms = parsed.eigenvectors.shape[1]
     masses = parsed.masses_amu
     if masses_amu is not None:
-        masses = np.asarray(masses_amu, dtype=float).reshape(-1)
+        try:
+            masses = np.asarray(masses_amu, dtype=float).reshape(-1)
+        except (TypeError, ValueError):
+            masses = np.full(0, np.nan)
         if masses.shape != (n_atoms,) or not np.all(np.isfinite(masses)) or np.any(masses <= 0):
             raise InputError(
                 f"read_vibrations('{path}'): masses_amu must be {n_atoms} positive masses in amu, got {masses_amu!r}"

@@ -381,3 +381,14 @@ def test_surface_model_needs_a_normal_from_the_cell():
     # an explicit inertia needs no normal
     Adsorbate(FREQS, model="hindered", atoms=Atoms("CO", positions=co.positions), indices=[0, 1],
               inertia=8.7, **params)
+
+
+@pytest.mark.parametrize(("key", "value"), [("mass", 1e-320), ("site_area", 1e-300), ("inertia", 1e-200)])
+def test_vanishing_parameters_are_refused_before_they_underflow(key, value):
+    """Positive but absurdly small values would become 0 in SI units (a divide-by-zero downstream)."""
+    params = dict(HINDERED)
+    params.pop("site_spacing")
+    params["site_area"] = 7.67
+    params[key] = value
+    with pytest.raises(InputError, match=rf"'{key}': expected at least"):
+        Adsorbate(FREQS, model="hindered", **params)

@@ -333,6 +333,10 @@ def test_outcar_renamed_and_masses(tmp_path):
     _assert_one_line(excinfo, "co_vib.log", "masses_amu")
     vib = aio.read_vibrations(path, masses_amu=[12.0, 16.0])
     np.testing.assert_allclose(vib.modes[0] * np.sqrt([[12.0], [16.0]]), q[0].reshape(2, 3), atol=1e-6)
+    for bad in ("abc", [12.0], [12.0, -16.0], [[1, 2], [3]]):
+        with pytest.raises(InputError) as excinfo:
+            aio.read_vibrations(path, masses_amu=bad)
+        _assert_one_line(excinfo, "co_vib.log", "masses_amu")
 
 
 def test_outcar_bad(tmp_path):
