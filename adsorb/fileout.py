@@ -9,7 +9,7 @@ from __future__ import annotations
 import io
 import json
 import os
-import tempfile
+import secrets
 from pathlib import Path
 
 
@@ -24,8 +24,10 @@ def write_bytes_atomic(path, data: bytes) -> Path:
     """Write ``data`` to ``path`` atomically and return the path."""
     path = Path(path)
     path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent)
+    # named before it exists, so an interrupt anywhere after this line finds it in the clean-up
+    tmp = str(path.parent / f".{path.name}.{secrets.token_hex(6)}")
     try:
+        fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
         with os.fdopen(fd, "wb") as handle:
             handle.write(data)
         os.chmod(tmp, _default_mode())

@@ -41,8 +41,9 @@ def test_signal_mid_run_leaves_nothing(tmp_path, sig):
     proc = _start_and_wait(out)
     proc.send_signal(sig)
     _, err = proc.communicate(timeout=60)
-    assert proc.returncode == 128 + int(sig)        # shell convention for death by signal (common practice)
-    assert err.strip().splitlines()[-1].startswith("adsorb: ") and "Traceback" not in err
+    # shell convention for death by signal (common practice)
+    assert proc.returncode == 128 + int(sig), (proc.returncode, err)
+    assert err.strip().splitlines()[-1].startswith("adsorb: ") and "Traceback" not in err, err
     assert list(tmp_path.iterdir()) == []
 
 

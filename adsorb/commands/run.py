@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import argparse
 import os
+import secrets
 import shutil
 import sys
 import tempfile
@@ -75,8 +76,11 @@ def run(args) -> int:
     created = [p for p in [parent, *parent.parents] if not p.exists()]
     parent.mkdir(parents=True, exist_ok=True)
     _remove_stale_partials(parent, out.name)
-    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.partial-{os.getpid()}-", dir=parent))
+    # the name is known before the folder exists, so an interrupt at any point after this line
+    # finds it in the clean-up below (tempfile.mkdtemp leaves a window between mkdir and return)
+    tmp = parent / f".{out.name}.partial-{os.getpid()}-{secrets.token_hex(4)}"
     try:
+        tmp.mkdir(mode=0o700)
         doc = write_results(run_study(case), tmp)
         _readable(tmp)
         if out.exists():
