@@ -94,30 +94,19 @@ _SMALLEST = {"mass": (1e-3, "amu"), "site_spacing": (1e-2, "Å"), "site_area": (
              "inertia": (1e-4, "amu Å^2"), "frequency_floor": (1e-3, "cm^-1")}
 
 
-def _positive_number(key: str, value) -> float:
+def _positive_number(key: str, value, *, allow_zero=False) -> float:
+    """A finite parameter value > 0 (>= 0 with ``allow_zero``), and not below its ``_SMALLEST``."""
     try:
         v = float(value)
     except (TypeError, ValueError):
         msg = f"Adsorbate parameter {key!r}: expected a number, got {value!r}"
         raise InputError(msg) from None
-    if not np.isfinite(v) or v <= 0:
-        msg = f"Adsorbate parameter {key!r}: expected a finite number > 0, got {value!r}"
+    if not np.isfinite(v) or v < 0 or (v == 0 and not allow_zero):
+        msg = f"Adsorbate parameter {key!r}: expected a finite number {'>=' if allow_zero else '>'} 0, got {value!r}"
         raise InputError(msg)
     smallest, unit = _SMALLEST.get(key, (0.0, ""))
     if v < smallest:
         msg = f"Adsorbate parameter {key!r}: expected at least {smallest:g} {unit}, got {value!r}"
-        raise InputError(msg)
-    return v
-
-
-def _nonnegative_number(key: str, value) -> float:
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        msg = f"Adsorbate parameter {key!r}: expected a number, got {value!r}"
-        raise InputError(msg) from None
-    if not np.isfinite(v) or v < 0:
-        msg = f"Adsorbate parameter {key!r}: expected a finite number >= 0, got {value!r}"
         raise InputError(msg)
     return v
 
@@ -350,7 +339,7 @@ class Adsorbate:
             # optional here: it only serves the domain check of Adsorbate.thermo
             self.translation_barrier = None
             if "translation_barrier" in p:
-                self.translation_barrier = float(_nonnegative_number("translation_barrier", p["translation_barrier"]))
+                self.translation_barrier = _positive_number("translation_barrier", p["translation_barrier"], allow_zero=True)
 
     def _require_surface_normal(self, purpose):
         """InputError unless ``atoms`` has a cell from which the surface normal follows."""

@@ -54,6 +54,7 @@ import numpy as np
 from adsorb import constants as C
 from adsorb.diagram_plots import plot_pathways  # re-exported: the plot lives in its own module
 from adsorb.errors import InputError
+from adsorb.partition.checks import finite_number
 from adsorb.thermo import ThermoTable
 
 __all__ = [
@@ -86,21 +87,9 @@ _SCALES = ("RHE", "SHE")
 # ---------------------------------------------------------------------------
 
 
-def _finite(value, what: str, expected: str) -> float:
-    """``float(value)``; InputError ``"{what}: expected {expected}, got {value!r}"`` if not a finite number."""
-    try:
-        x = float(value)
-    except (TypeError, ValueError):
-        x = math.nan
-    if not math.isfinite(x):
-        msg = f"{what}: expected {expected}, got {value!r}"
-        raise InputError(msg)
-    return x
-
-
 def _pairs(value, what: str) -> int:
     expected = "an integer number of (H+ + e-) pairs"
-    f = math.nan if isinstance(value, bool) else _finite(value, what, expected)
+    f = math.nan if isinstance(value, bool) else finite_number(value, what, expected)
     if not f.is_integer():
         msg = f"{what}: expected {expected}, got {value!r}"
         raise InputError(msg)
@@ -121,7 +110,7 @@ def _coefficients(mapping, what: str) -> tuple:
         if not isinstance(name, str) or not name:
             msg = f"{what}: species names must be non-empty strings, got {name!r}"
             raise InputError(msg)
-        out.append((name, _finite(coef, f"{what} coefficient of {name!r}", "a finite number")))
+        out.append((name, finite_number(coef, f"{what} coefficient of {name!r}", "a finite number")))
     return tuple(out)
 
 
@@ -186,7 +175,7 @@ class PathwayStep:
         object.__setattr__(self, "pairs_consumed",
                            _pairs(self.pairs_consumed, f"PathwayStep {self.label!r} pairs_consumed"))
         if self.delta_gibbs is not None:
-            g = _finite(self.delta_gibbs, f"PathwayStep {self.label!r} delta_gibbs", "a finite number in eV")
+            g = finite_number(self.delta_gibbs, f"PathwayStep {self.label!r} delta_gibbs", "a finite number in eV")
             if self.changes:
                 msg = f"PathwayStep {self.label!r}: give either changes or delta_gibbs, not both"
                 raise InputError(msg)
@@ -358,7 +347,7 @@ def _species_value(name, gibbs):
                    "temperature and pressure")
             raise InputError(msg)
         return float(g.reshape(())), value, float(np.asarray(value.temperature).reshape(()))
-    g = _finite(value, f"pathway: Gibbs energy of species {name!r}", "a finite number in eV or a ThermoTable")
+    g = finite_number(value, f"pathway: Gibbs energy of species {name!r}", "a finite number in eV or a ThermoTable")
     return g, None, None
 
 

@@ -31,6 +31,7 @@ import numpy as np
 
 from adsorb import constants as C
 from adsorb.errors import InputError, ModelWarning
+from adsorb.partition.checks import finite_number
 from adsorb.standard_states import describe_state, standard_coverage
 from adsorb.thermo import ThermoTable
 
@@ -132,13 +133,7 @@ def reaction_terms(terms) -> ReactionTerms:
     de = 0.0
     dz = dth = dh = ds = dg = 0.0
     for coef, s in terms:
-        try:
-            coef = float(coef)
-        except (TypeError, ValueError):
-            coef = np.nan
-        if not np.isfinite(coef):
-            msg = f"reaction_terms: a stoichiometric coefficient must be a finite number, got {coef!r}"
-            raise InputError(msg)
+        coef = finite_number(coef, "reaction_terms: stoichiometric coefficient", "a finite number")
         if isinstance(s, ThermoTable):
             de = de + coef * s.energy
             dz = dz + coef * s.zpe
@@ -147,14 +142,7 @@ def reaction_terms(terms) -> ReactionTerms:
             ds = ds + coef * s.entropy
             dg = dg + coef * s.gibbs
         else:
-            try:
-                e = float(s)
-            except (TypeError, ValueError):
-                msg = f"reaction_terms: species must be a ThermoTable or an energy in eV, got {s!r}"
-                raise InputError(msg) from None
-            if not np.isfinite(e):
-                msg = f"reaction_terms: a fixed electronic energy must be a finite number in eV, got {s!r}"
-                raise InputError(msg)
+            e = finite_number(s, "reaction_terms: species", "a ThermoTable or a fixed electronic energy in eV")
             de, dh, dg = de + coef * e, dh + coef * e, dg + coef * e
     b = lambda a: np.broadcast_to(np.asarray(a, dtype=float), np.shape(dg)).copy()  # noqa: E731
     return ReactionTerms(temperature=b(t), delta_energy=float(de), delta_zpe=b(dz), delta_thermal=b(dth),

@@ -83,9 +83,9 @@ def test_bad_number_is_refused_in_one_line(name, value):
 
 def test_reaction_terms_refuse_non_finite_coefficients_and_energies():
     table = ADS.thermo(300.0)
-    with pytest.raises(InputError, match="coefficient"):
+    with pytest.raises(InputError, match="stoichiometric coefficient"):
         reaction_terms([(np.nan, table)])
-    with pytest.raises(InputError, match="fixed electronic energy"):
+    with pytest.raises(InputError, match="fixed electronic energy in eV"):
         reaction_terms([(1, table), (-1, np.inf)])
 
 

@@ -39,6 +39,18 @@ def positive_array(name, value, unit="", *, allow_zero=False):
     return arr
 
 
+def finite_number(value, what: str, expected: str) -> float:
+    """``float(value)``; InputError ``"{what}: expected {expected}, got {value!r}"`` if not a finite number."""
+    try:
+        x = float(value)
+    except (TypeError, ValueError):
+        x = np.nan
+    if not np.isfinite(x):
+        msg = f"{what}: expected {expected}, got {value!r}"
+        raise InputError(msg)
+    return x
+
+
 #: meV and eV expressed in cm^-1, for the unit suggestions below
 _CM_PER_MEV = 1e-3 / C.invcm_eV
 _CM_PER_EV = 1.0 / C.invcm_eV
