@@ -51,7 +51,7 @@ def _run(name, quick):
     if name == "startup":
         from bench import startup as m
 
-        demo = ROOT / "cases" / "ammonia_mx" / "case.toml"
+        demo = ROOT / "cases" / "ammonia_mx0001.toml"     # the README demo
         return m.run(quick=quick, demo_case=demo), None
     raise ValueError(name)
 

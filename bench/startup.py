@@ -28,7 +28,9 @@ def run(quick=False, repeats=5, demo_case=None):
                           baseline="python -c pass", target="< 0.3 s above baseline",
                           target_met=t_help - base < 0.3))
     results[-1].extra["seconds_above_baseline"] = t_help - base
-    if demo_case is not None and Path(demo_case).exists():
+    if demo_case is not None:
+        if not Path(demo_case).is_file():
+            raise FileNotFoundError(f"bench startup: demo case {demo_case} not found")
         t_check = median_time(_cmd(["-m", "adsorb", "check", str(demo_case)]), repeats)
         results.append(Result(name=f"start-up: adsorb check {Path(demo_case).relative_to(ROOT)}", ours_s=t_check,
                               baseline_s=base, baseline="python -c pass", target="< 0.3 s above baseline",
