@@ -185,13 +185,16 @@ def _converged(aR, theta, rnd, prev_err):
 
     Converged when the weighted error is below 1e-14 (allowing for the rounding
     floor ``rnd`` of R) with every non-negligible |R_i| below 1e-10, or when the
-    weighted error is already below 1e-12 and the last Newton step no longer
-    reduced it (the rounding floor of the equations has been reached).
+    weighted error is already below 1e-12 and the last Newton step reduced it by
+    less than a factor of 4 (the rounding floor of the equations has been
+    reached). A step that raised the error is not a floor: the first step from
+    the ideal start can move the error from a nearly empty species (θ |R| small
+    for a large |R|) to a nearly full one, where Newton is not done yet.
     """
     err = (theta * aR).max(axis=0)
     rel = np.all((aR <= 1e-10 + rnd) | (theta < 1e-250), axis=0)
     tight = np.all(theta * (aR - rnd) <= 1e-14, axis=0)
-    stalled = (err <= 1e-12) & (err >= 0.25 * prev_err)
+    stalled = (err <= 1e-12) & (err >= 0.25 * prev_err) & (err <= prev_err)
     return (tight | stalled) & rel, err
 
 

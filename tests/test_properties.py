@@ -30,7 +30,7 @@ from contextlib import contextmanager
 
 import numpy as np
 from ase import Atoms
-from hypothesis import assume, given, settings
+from hypothesis import assume, given, reject, settings
 from hypothesis import strategies as st
 from numpy.testing import assert_allclose, assert_array_equal
 
@@ -39,7 +39,7 @@ from adsorb import constants as C
 from adsorb.coverage import site_coverages
 from adsorb.eos import CriticalConstants, peng_robinson_mixture, peng_robinson_pure
 from adsorb.equilibria import adsorption_equilibrium
-from adsorb.errors import ModelWarning
+from adsorb.errors import InputError, ModelWarning
 from adsorb.isotherms import AdsorptionModel, isosteric_heat
 from adsorb.partition.hindered import closed_form_reliable
 from adsorb.standard_states import standard_thermo
@@ -72,11 +72,12 @@ HEAVY = ("B", "C", "N", "O", "F", "Ne", "Si", "P", "S", "Cl", "Ar", "Br")
 def _fd_tolerance(values, h, scale):
     """Tolerance of a central difference (f(T+h) - f(T-h))/2h compared with f'(T).
 
-    Truncation: the error is h^2 f'''/6. With h = DELTA T and functions that vary on the scale
-    of T (ln T terms, Einstein functions: T^3 f''' stays below ~5 k per mode for every x = hcν/kT),
-    that is below DELTA^2 ~ 1e-8 of the scale (S + Cp + k per motion); 1e-6 leaves a margin of
-    100. Rounding: each f carries ~eps |f|, so the difference carries ~2 eps max|f| / 2h; we
-    allow 8 eps max|f| / h.
+    Truncation: the error is h^2 f'''/6 = DELTA^2 T^2 f'''/6. For f = G, T^2 |G'''| = T^2 |S''| =
+    |T dCv/dT - Cv|, and for f = H it is T^2 |Cv''|: 5/2 k for the translation's ln T terms and at
+    most 1.0 and 1.09 k per harmonic mode over all x = hcν/kT (Einstein functions, evaluated for
+    this test), so the error stays near 1e-9 k per motion. We allow 1e-6 of ``scale`` (|S| + Cp +
+    k per motion), a margin of several hundred. Rounding: each f carries ~eps |f|, so the
+    difference quotient carries ~eps max|f| / h; we allow 8 eps max|f| / h.
     """
     return 1e-6 * scale + 8 * EPS * np.max(np.abs(values)) / h
 
@@ -125,7 +126,15 @@ def gas_molecules(draw):
         # given B; above 5 cm^-1 the 'auto' rotor sums the rotational levels explicitly
         kwargs["rotational_constants"] = draw(_log_uniform(0.05, 60.0))
     freqs = draw(st.lists(wavenumbers, min_size=n_modes, max_size=n_modes))
-    return GasMolecule(atoms, freqs, **kwargs)
+    try:
+        return GasMolecule(atoms, freqs, **kwargs)
+    except InputError as err:
+        # a near-symmetric geometry (e.g. a homonuclear triangle with sides 2.26, 2.22, 2.17 Å) whose
+        # rotations at the default 0.05 Å tolerance do not close into a group is refused on purpose
+        # (docs/methods-geometry.md, "Closure"): not a species of this strategy
+        if "do not form a group" not in str(err):
+            raise
+        reject()
 
 
 # ------------------------------------------------------------------ strategies: adsorbates
@@ -177,14 +186,15 @@ def adsorbates(draw, models=("harmonic", "lattice-gas", "2d-gas", "hindered")):
 
 def _hindered_reliable(ads, t):
     """The closed-form accuracy rule of the hindered model (True for every other model or solver)."""
-    if ads.model != "hindered" or ads.solver == "exact":
+    c = ads.choices()
+    if ads.model != "hindered" or c["solver"] == "exact":
         return np.ones(np.shape(t), dtype=bool)
     rotor = {}
-    if ads._has_rotor:
-        rotor = dict(inertia_amu_A2=ads.inertia, rotation_barrier_eV=ads.rotation_barrier,
-                     n_minima=ads.rotation_minima)
-    return closed_form_reliable(t, mass_amu=ads.mass, barrier_eV=ads.translation_barrier,
-                                spacing_A=ads.site_spacing, **rotor)
+    if "rotation_barrier_eV" in c:
+        rotor = dict(inertia_amu_A2=c["inertia_amu_A2"], rotation_barrier_eV=c["rotation_barrier_eV"],
+                     n_minima=c["rotation_minima"])
+    return closed_form_reliable(t, mass_amu=c["mass_amu"], barrier_eV=c["translation_barrier_eV"],
+                                spacing_A=c["site_spacing_A"], **rotor)
 
 
 # ============================================================================ gas molecules
@@ -237,13 +247,16 @@ def test_gas_signs_and_monotonicity(gas, t1, ratio, p):
     assert tab.entropy[1] - tab.entropy[0] >= 2.5 * KB * math.log(ratio) * (1 - 1e-9) - tol
     assert tab.enthalpy[1] - tab.enthalpy[0] >= 2.5 * KB * (t[1] - t[0]) * (1 - 1e-9) - 16 * EPS * np.max(np.abs(tab.enthalpy))
     # S >= 0 only where the gas is classical (common practice): the Sackur-Tetrode and the classical-rotor
-    # entropies turn negative when kT/(p Λ^3) < e^-5/2 or T well below σθ_rot. Where kT/(p Λ^3) >= 1 and
-    # T >= σ θ_rot,max, q_trans >= 1 and q_rot >= 1, so S >= S_trans >= 5/2 k.
+    # entropies turn negative when kT/(p Λ^3) < e^-5/2 or T well below σθ_rot. Where q_trans = kT/(p Λ^3)
+    # >= 1 and T >= σ θ_rot,max (so q_rot >= 1), every motion has S >= 0 and the translation
+    # S_trans = k (ln q_trans + 5/2) >= 5/2 k (Sackur-Tetrode, McQuarrie 1976 eq. 5-20; computed here)
     lam = _thermal_wavelength_A(gas.mass_amu, t) * C.angstrom
-    classical = C.k_B * t / (p * lam**3) >= 1.0
+    ln_q_trans = np.log(C.k_B * t / (p * lam**3))
+    classical = ln_q_trans >= 0.0
     if gas.rotational_constants_cm.size:
         classical &= t >= gas.symmetry_number * gas.rotational_constants_cm.max() * C.invcm_K
-    assert np.all(tab.entropy[classical] >= 2.5 * KB * (1 - 1e-12))
+    s_trans = KB * (ln_q_trans + 2.5)
+    assert np.all(tab.entropy[classical] >= s_trans[classical] - 1e-12 * KB - tol)
 
 
 # ============================================================================ adsorbates
@@ -268,9 +281,13 @@ def test_adsorbate_identities(ads, t):
         assert abs(s_fd - tab.entropy[1]) <= _fd_tolerance(tab.gibbs, h, scale)
 
 
-@settings(max_examples=40)
-@given(ads=adsorbates(), t1=temperatures, ratio=_log_uniform(1.001, 100.0))
-def test_adsorbate_signs_and_monotonicity(ads, t1, ratio):
+@settings(max_examples=60)
+@given(ads=adsorbates(), data=st.data(), ratio=_log_uniform(1.001, 100.0))
+def test_adsorbate_signs_and_monotonicity(ads, data, ratio):
+    # half of the draws start where the softest harmonic mode is frozen (T < hcν_min/5k), the third-law
+    # end where S -> 0 and a wrong constant in ln q shows
+    frozen = max(1.0, 0.2 * float(np.min(ads.frequencies)) * C.invcm_K)
+    t1 = data.draw(st.one_of(temperatures, _log_uniform(1.0, max(frozen, 1.0 + 1e-9))), label="t1")
     grid = t1 * np.geomspace(1.0, ratio, 24)
     with _quiet():
         tab = ads.thermo(grid)
@@ -295,13 +312,16 @@ def test_adsorbate_signs_and_monotonicity(ads, t1, ratio):
         if ads.low_frequency != "qrrho":
             assert np.all(s >= -tol)
         return
-    lam = _thermal_wavelength_A(ads.mass, grid)
-    classical = lam <= ads.site_spacing
+    c = ads.choices()
+    spacing = c["site_spacing_A"] if "site_spacing_A" in c else math.sqrt(c["site_area_A2"])
+    classical = _thermal_wavelength_A(c["mass_amu"], grid) <= spacing
     if ads.model == "2d-gas":
-        # S_2D = k [ln(b^2/Λ^2) + 1] >= k where Λ <= b (McQuarrie 1976, ch. 5, 2D analogue)
-        assert np.all(s[classical] >= KB * (1 - 1e-12))
+        # S >= S_2D = k [ln(b^2/Λ^2) + 1] >= k where Λ <= b (McQuarrie 1976, ch. 5, 2D analogue; computed
+        # here), the other modes being harmonic (S >= 0)
+        s_2d = KB * (np.log(spacing**2 / _thermal_wavelength_A(c["mass_amu"], grid) ** 2) + 1.0)
+        assert np.all(s[classical] >= s_2d[classical] - tol)
         return
-    if ads._has_rotor and ads.symmetry_number > 1:
+    if c.get("symmetry_number", 1) > 1:
         return
     assert np.all(s[classical & ok] >= -tol)
 
@@ -333,10 +353,10 @@ def _rotor_x(inertia_amu_A2, barrier_eV, n_min, t):
 def test_hindered_tends_to_2d_gas_and_free_rotor(inp, t, f_t, f_r):
     # Sprowl, Campbell, Arnadottir 2016: as W -> 0 the hindered translator becomes the 2D ideal gas per
     # site (area b^2) and the hindered rotor the free rotor. Barriers are drawn so that z = W/2kT <= 0.2
-    # and x = hν/kT <= 0.3, where the leading terms of the approach are, per motion,
-    #   S - S_free = x^2/24 - z^2/4 + O(x^4, z^4)
-    # (x^2/24 from the quantum/classical oscillator ratio, Bernoulli series of x/(e^x - 1), A&S 23.1.1;
-    # -z^2/4 from e^-z I0(z) and I1/I0, A&S 9.6.10).
+    # and x = hν/kT <= 0.3, where the approach is, per motion,
+    #   S - S_free = x^2/24 - x^4/960 - z^2/4 + 3 z^4/64 + ...
+    # (x terms: the quantum/classical oscillator ratio, Bernoulli series of x/(e^x - 1), A&S 23.1.1;
+    # z terms: e^-z I0(z) and I1/I0 from the ascending series, A&S 9.6.10); we allow x^4 + z^4 for the rest.
     kt = KB * t
     cap_t = min(0.4 * kt, (0.3 / _translator_x(inp["mass"], 1.0, inp["b"], t)) ** 2)
     cap_r = min(0.4 * kt, (0.3 / _rotor_x(inp["inertia"], 1.0, inp["n_min"], t)) ** 2)
@@ -477,7 +497,7 @@ def test_van_t_hoff_and_standard_states(inp, t):
     sizes = abs(slab) + abs(gas.energy) + np.max(np.abs(g.gibbs)) + np.max(np.abs(a.gibbs))
     # truncation as in _fd_tolerance (scale: |dH| + kT per motion); rounding: eps * sizes / kT in ln K,
     # divided by du = 2δ/T and multiplied by k
-    n_motions = ads.frequencies.size + 6
+    n_motions = ads.frequencies.size + gas.frequencies.size + 6      # + 3D translation and rotation
     tol = 1e-6 * (abs(dh) + n_motions * KB * t) + 8 * EPS * sizes / (2 * DELTA)
     assert abs(fd - dh) <= tol
     # K is exp(ln K) wherever it is a normal float
@@ -561,11 +581,13 @@ def test_ideal_coverage_monotone_in_own_pressure(s, which, factor):
     a, b = _solve(s).coverage, _solve(s, p2).coverage
     same = [i for i, lab in enumerate(s["kinds"]) if lab == s["kinds"][j]]
     other = [i for i in range(len(s["K"])) if i not in same]
-    assert b[j] >= a[j]
+    # up to the solver's accuracy: coverages to 1e-12 (its site-balance target; near saturation
+    # θ = c θ_*^n carries the rounding of ln θ_*, e.g. 0.5 ± 6e-15 for a two-site species)
+    assert b[j] >= a[j] - 1e-12
     empty = 1.0 - np.sum(s["sites"][same] * a[same])
     if a[j] > 1e-200 and empty > 1e-6:             # away from underflow and saturation: strictly
         assert b[j] > a[j]
-    assert all(b[i] <= a[i] for i in same if i != j)
+    assert all(b[i] <= a[i] + 1e-12 for i in same if i != j)
     assert_array_equal(b[other], a[other])
 
 
@@ -606,7 +628,7 @@ def pr_fluids(draw):
                              draw(st.floats(-0.4, 0.7)), "invented")
 
 
-@settings(max_examples=40)
+@settings(max_examples=100)
 @given(fluid=pr_fluids(), t=temperatures, p=pressures)
 def test_peng_robinson_fugacity_identity(fluid, t, p):
     # ln φ = ∫0^p (Z - 1) dp'/p' at constant T (thermodynamic identity), so d ln φ/d ln p = Z - 1 on a
@@ -619,7 +641,17 @@ def test_peng_robinson_fugacity_identity(fluid, t, p):
     st_ = peng_robinson_pure(fluid, t, pp, warn=False)
     assume(np.all(st_.liquid_like == st_.liquid_like[0]) and np.all(st_.three_roots == st_.three_roots[0]))
     z = st_.z
-    assert np.all(np.isfinite(z)) and np.all(z > 0)
+    # Z is a root of the cubic above B (Peng & Robinson 1976; coefficients written out here): backward
+    # error |f(Z)| against the size of its terms, which does not depend on the conditioning of the root
+    kappa = 0.37464 + 1.54226 * fluid.acentric_factor - 0.26992 * fluid.acentric_factor**2
+    if fluid.acentric_factor > 0.49:
+        kappa = 0.379642 + 1.48503 * fluid.acentric_factor - 0.164423 * fluid.acentric_factor**2 \
+            + 0.016666 * fluid.acentric_factor**3
+    a = 0.45724 * (1 + kappa * (1 - math.sqrt(tr))) ** 2 * (pp / fluid.critical_pressure) / tr**2
+    b = 0.07780 * (pp / fluid.critical_pressure) / tr
+    terms = np.array([z**3, -(1 - b) * z**2, (a - 3 * b**2 - 2 * b) * z, -(a * b - b**2 - b**3)])
+    assert np.all(np.abs(terms.sum(axis=0)) <= 64 * EPS * np.abs(terms).sum(axis=0))
+    assert np.all(np.isfinite(z)) and np.all(z > b)
     fd = (st_.ln_phi[2] - st_.ln_phi[0]) / (2 * d)
     assert abs(fd - (z[1] - 1.0)) <= 1e-6 * (1 + abs(z[1] - 1)) + 8 * EPS * np.max(np.abs(st_.ln_phi)) / d
     # a mixture of the same fluid under two names, at any composition, is the pure fluid (one-fluid rules)
@@ -666,3 +698,19 @@ def test_peng_robinson_small_liquid_root_regression():
     state = peng_robinson_pure(fluid, t, p, warn=False)
     assert roots.size == 1 and not bool(state.three_roots)
     assert abs(float(state.z) / roots[0] - 1) < 1e-13
+
+
+def test_mean_field_first_newton_step_is_not_a_rounding_floor_regression():
+    # regression found by test_coverages_bounded_and_site_balance (invented set): a two-site dissociative
+    # species near saturation beside a nearly empty one that it repels. The first Newton step moved the
+    # largest weighted error θ|R| from the empty species to the full one and raised it; the solver took
+    # that for its rounding floor and raised ConvergenceError (site-balance residual 1.5e-12 > 1e-12)
+    K, p, t = np.array([1.32066664e32, 1.15538065e-12]), np.array([1.0, 1.0]), 123.0390625
+    eps = np.array([[0.0, 0.225], [0.225, 0.0]])
+    res = site_coverages(K, p, [True, True], eps, t, sites_per_species=[2, 1])
+    th, empty = res.coverage, res.empty
+    # the equations of the model (docs/methods-coverages.md §2), written out: θ_i = (K_i p_i)^1/2 θ_*^n_i
+    # exp(-Σ_j ε_ij θ_j / kT) and θ_* + 2 θ_1 + θ_2 = 1
+    expected = np.sqrt(K * p) * empty ** np.array([2, 1]) * np.exp(-(eps @ th) / (KB * t))
+    assert_allclose(th, expected, rtol=1e-12)
+    assert abs(empty + 2 * th[0] + th[1] - 1) <= 1e-14
