@@ -65,7 +65,7 @@ MOBILE_MODELS = frozenset({"hindered", "2d-gas", "surface-pes"})
 _PARAMETERS = {
     "indices": "indices of the adsorbate atoms in `atoms` (default: atoms not frozen by FixAtoms)",
     "mass": "adsorbate mass in amu (default: from `atoms`)",
-    "translation_barrier": "diffusion barrier in eV (hindered)",
+    "translation_barrier": "diffusion barrier in eV (hindered; harmonic, lattice-gas: domain check only)",
     "site_spacing": "distance between neighbouring sites in Å (hindered, 2d-gas)",
     "site_area": "area per site in Å^2 (hindered, 2d-gas; alternative to site_spacing)",
     "rotation_barrier": "barrier to rotation about the surface normal in eV (hindered)",
@@ -142,7 +142,8 @@ class Adsorbate:
         ======================  ===============================================
         ``indices``             adsorbate atom indices in ``atoms``
         ``mass``                adsorbate mass, amu (default from ``atoms``)
-        ``translation_barrier`` diffusion barrier W_x, eV (hindered)
+        ``translation_barrier`` diffusion barrier W_x, eV (hindered; with
+                                harmonic or lattice-gas, a warning where kT > W_x)
         ``site_spacing``        site spacing b, Å (hindered, 2d-gas)
         ``site_area``           area per site, Å^2 (alternative to b; b = sqrt)
         ``rotation_barrier``    rotational barrier W_r, eV (hindered)
@@ -531,6 +532,8 @@ class Adsorbate:
         }
         if self.mass is not None:
             out["mass_amu"] = self.mass
+        if self.model in ("harmonic", "lattice-gas") and self.translation_barrier is not None:
+            out["translation_barrier_eV"] = self.translation_barrier
         if self.model == "hindered":
             out.update(solver=self.solver, translation_barrier_eV=self.translation_barrier,
                        site_spacing_A=self.site_spacing)
