@@ -48,6 +48,7 @@ import scipy.interpolate
 import scipy.optimize
 
 from adsorb import constants as C
+from adsorb.equilibria import capped_exp
 from adsorb.errors import ConvergenceError, InputError
 from adsorb.fileout import write_json_atomic, write_text_atomic
 
@@ -358,7 +359,7 @@ def prefactor_from_thermo(transition_state, initial_state, *, barrier_eV):
     def nu(t):
         t = np.asarray(t, dtype=float)
         dg = gts(t) - gad(t) - ed
-        return C.k_B * t / C.h * np.exp(-dg / (KB * t))
+        return capped_exp(np.log(C.k_B * t / C.h) - dg / (KB * t), t, "TPD prefactor (kT/h) exp(-(dG - E_d)/kT)")
 
     return nu
 

@@ -14,7 +14,7 @@ from scipy.special import lambertw
 
 from adsorb import constants as C
 from adsorb import tpd
-from adsorb.errors import InputError
+from adsorb.errors import InputError, ModelWarning
 
 KJ = 1.0 / C.EV_TO_KJ_MOL  # kJ/mol -> eV
 KB = C.kB_eV
@@ -197,6 +197,10 @@ def test_prefactor_from_thermo_tables():
     assert nu(350.0) == pytest.approx(C.k_B * 350 / C.h * np.exp(1e-3 / KB), rel=1e-9)
     with pytest.raises(InputError, match="covers 100-800 K"):
         nu(900.0)
+    # a transition state far below the initial state at low T: capped at the largest double, with a warning
+    deep = tpd.prefactor_from_thermo(Table(t, np.full(t.size, -30.0)), ad, barrier_eV=0.0)
+    with pytest.warns(ModelWarning, match="exceeds the floating-point range"):
+        assert np.isfinite(deep(100.0))
 
 
 # ---------------------------------------------------------------------------
